@@ -301,4 +301,3 @@ func contract(t Term) (Term, bool) {
 
 func isMetric(a Atom) bool { _, ok := a.(Metric); return ok }
 func isVec(a Atom) bool    { _, ok := a.(Vec); return ok }
-
