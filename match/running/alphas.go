@@ -69,8 +69,8 @@ func AlphaSOneLoop(nf int, as0, mu0, mu float64) (float64, error) {
 
 // AlphaSLambda is the asymptotic expansion of αs(μ) in 1/ln(μ²/Λ²) with the MS-bar Λ of nf
 // flavours, truncated after loops terms (1 to 4): the formula of the QCD review of the Particle
-// Data Group (S. Bethke, G. Dissertori, G.P. Salam, "Quantum chromodynamics", eq. 9.5 of the
-// 2016+ editions; from memory), with b_i = β_i/(4π)^{i+1}.
+// Data Group (section on the running coupling; from memory, and checked against the exact
+// solution in the tests), with b_i = β_i/(4π)^{i+1}.
 func AlphaSLambda(nf, loops int, lambda, mu float64) (float64, error) {
 	if err := (Beta{Nf: nf, Loops: loops}).Check(); err != nil {
 		return 0, err

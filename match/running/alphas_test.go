@@ -12,9 +12,9 @@ func relDiff(a, b float64) float64 { return math.Abs(a-b) / math.Max(math.Abs(b)
 
 // The β and γm coefficients against the decimals quoted with the original papers (αs/π
 // convention, i.e. divided by 4^{i+1}): β3 = 114.23 − 27.134 nf + 1.5824 nf² + 0.005857 nf³
-// (T. van Ritbergen, J.A.M. Vermaseren, S.A. Larin, PLB 400 (1997) 379, eq. (9)) and
+// (T. van Ritbergen, J.A.M. Vermaseren, S.A. Larin, PLB 400 (1997) 379) and
 // γm3 = 98.9434 − 19.1075 nf + 0.276163 nf² + 0.00579322 nf³ (K.G. Chetyrkin, PLB 404 (1997)
-// 161, eq. (8)). From memory; the rational forms in beta.go were written independently.
+// 161). From memory; the rational forms in beta.go were written independently.
 func TestCoefficientDecimals(t *testing.T) {
 	poly := func(f func(int) float64) [4]float64 {
 		// Fit the cubic in nf through nf = 0..3 exactly (Newton differences).

@@ -40,7 +40,7 @@ func (b Beta) Check() error {
 
 // BetaCoeffs returns β0…β3 for nf flavours in the a = αs/(4π) convention.
 // β0, β1, β2: standard (PHYSICS.md). β3: T. van Ritbergen, J.A.M. Vermaseren, S.A. Larin,
-// Phys. Lett. B400 (1997) 379, eq. (8) (from memory; the decimals 114.23 − 27.134 nf +
+// Phys. Lett. B400 (1997) 379 (from memory; the decimals 114.23 − 27.134 nf +
 // 1.582 nf² + 0.0059 nf³ in the αs/π convention, which the tests check, are the well-known ones).
 func BetaCoeffs(nf int) [4]float64 {
 	f := float64(nf)

@@ -18,7 +18,7 @@ var b4Const = func() float64 {
 // αs^{(nl)}(μ) = ζg² αs^{(nl+1)}(μ), as a series in x = αs^{(nl+1)}(μ)/π truncated after
 // `loops` loops, with L = ln(μ²/m_h²) and m_h = m_h(μ) the MS-bar mass of the heavy quark in
 // the (nl+1)-flavour theory. K.G. Chetyrkin, B.A. Kniehl, M. Steinhauser, Nucl. Phys. B510
-// (1998) 61, eq. (20) with (27) (from memory; the logarithms are checked by RG invariance in
+// (1998) 61 (from memory; the logarithms are checked by RG invariance in
 // the tests, the constants against the printed decimals 11/72 = 0.152778 and
 // 0.972057 − 0.084651 nl).
 func zetaG2(x, L float64, nl, loops int) float64 {
@@ -38,7 +38,7 @@ func zetaG2(x, L float64, nl, loops int) float64 {
 }
 
 // zetaM is the MS-bar decoupling constant of a light-quark mass, m^{(nl)}(μ) = ζm m^{(nl+1)}(μ),
-// in the same variables as zetaG2 (same paper, eq. (21) with (28); from memory; the
+// in the same variables as zetaG2 (same paper; from memory; the
 // logarithms are checked by RG invariance in the tests, the constants against the printed
 // decimals 89/432 = 0.206019 and 1.84763 + 0.0247225 nl).
 func zetaM(x, L float64, nl, loops int) float64 {

@@ -58,7 +58,7 @@ func decoupledSpread(t *testing.T, asM float64, nl, loops int) (dAlpha, dMass fl
 // relation kept to n loops the spread scales like αs^{n+1} (αs: n = 0…3; masses: the first term
 // is at two loops, so n = 1 behaves like n = 0 there). Halving αs must shrink the spread by
 // 2^{n+1}: this checks every logarithm of Chetyrkin–Kniehl–Steinhauser, Nucl. Phys. B510 (1998)
-// 61, eqs. (20), (21), against β and γm, for two values of nl.
+// 61, against β and γm, for two values of nl.
 func TestDecouplingRGInvariance(t *testing.T) {
 	for _, nl := range []int{3, 5} {
 		for loops := 0; loops <= 3; loops++ {
@@ -80,7 +80,7 @@ func TestDecouplingRGInvariance(t *testing.T) {
 }
 
 // The constants at μ = m_h against the decimals printed by Chetyrkin, Kniehl, Steinhauser,
-// Nucl. Phys. B510 (1998) 61 (eqs. (27), (28); from memory, to the four digits trusted):
+// Nucl. Phys. B510 (1998) 61 (from memory, to the four digits trusted):
 // ζg² = 1 + 0.1528 x² + (0.9721 − 0.0847 nl) x³ and ζm = 1 + 0.2060 x² + (1.8476 + 0.0247 nl) x³,
 // x = αs/π; the tolerance is the rounding of the printed digits.
 func TestDecouplingConstants(t *testing.T) {
