@@ -67,10 +67,11 @@ func deltaF1FourQuarkRat(nc, nf int) [][]*big.Rat {
 // C7^eff = C7 − C5/3 − C6, C8^eff = C8 + C5 in NDR; from memory), for nc = 3 and nf = 5 (u = 2 up-type and
 // d = 3 down-type flavours). Derived exactly (TestBasisChange) from the Chetyrkin–Misiak–Münz
 // table cmmDipoleRat by the 4-dimensional change of basis; the 6×6 block is
-// DeltaF1FourQuarkLO(3, 5); the rows 1, 2, 3, 8 agree with the values printed by A.J. Buras,
-// M. Misiak, M. Münz, S. Pokorski, Nucl. Phys. B424 (1994) 374 as far as remembered
-// (γ27 = 416/81, γ37 = −464/81, γ18 = 3, γ28 = 70/27, γ38 = 140/27 + 3f, γ48 = 6 + 70f/27,
-// γ68 = −4 − 119f/27). Its magic numbers are that paper's (TestMagicNumbers).
+// DeltaF1FourQuarkLO(3, 5). Of the dipole entries, γ17 = 0, γ27 = 416/81, γ37 = −464/81,
+// γ18 = 3, γ28 = 70/27, γ38 = 140/27 + 3f, γ48 = 6 + 70f/27 and γ68 = −4 − 119f/27 agree with
+// the values remembered from A.J. Buras, M. Misiak, M. Münz, S. Pokorski, Nucl. Phys. B424
+// (1994) 374; γ47, γ57, γ58, γ67 rest on the derivation alone. The magic numbers of that
+// paper are reproduced (TestMagicNumbers).
 func deltaF1DipoleRat() [][]*big.Rat {
 	rows := deltaF1FourQuarkRat(3, 5)
 	g7 := []*big.Rat{q(0, 1), q(416, 81), q(-464, 81), q(136, 81), q(32, 9), q(-296, 81)}
