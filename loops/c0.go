@@ -1,0 +1,298 @@
+package loops
+
+import (
+	"fmt"
+	"math"
+	"math/cmplx"
+)
+
+// tri describes a triangle: squared internal masses m2[i] and invariants s[i][j] = (k_i − k_j)²
+// between lines i and j, with k_0 = 0, k_1 = p1, k_2 = p2 (Denner's order: s[0][1] = p1²,
+// s[1][2] = (p2−p1)², s[0][2] = p2²).
+type tri struct {
+	m2 [3]float64
+	s  [3][3]float64
+}
+
+func newTri(s01, s12, s02, m02, m12, m22 float64) tri {
+	var t tri
+	t.m2 = [3]float64{m02, m12, m22}
+	t.s[0][1], t.s[1][0] = s01, s01
+	t.s[1][2], t.s[2][1] = s12, s12
+	t.s[0][2], t.s[2][0] = s02, s02
+	return t
+}
+
+// y returns the modified Cayley matrix element Y_ij = (m_i² + m_j² − s_ij)/2.
+func (t *tri) y(i, j int) float64 {
+	if i == j {
+		return t.m2[i]
+	}
+	return 0.5 * (t.m2[i] + t.m2[j] - t.s[i][j])
+}
+
+// edge returns the two vertices (lines) j < k of the edge opposite vertex i.
+func edge(i int) (int, int) {
+	switch i {
+	case 0:
+		return 1, 2
+	case 1:
+		return 0, 2
+	}
+	return 0, 1
+}
+
+// quad returns the coefficients of F on the edge opposite vertex i, parametrised from vertex j
+// (t = 0) to vertex k (t = 1): F_i(t) = A t² + B t + C.
+func (t *tri) quad(i int) (A, B, C float64) {
+	j, k := edge(i)
+	A = t.s[j][k]
+	B = t.m2[k] - t.m2[j] - A
+	C = t.m2[j]
+	return
+}
+
+func (t *tri) scale() float64 {
+	return scaleOf(t.m2[0], t.m2[1], t.m2[2], t.s[0][1], t.s[1][2], t.s[0][2])
+}
+
+// lambda3 returns the Källén function λ(a, b, c).
+func lambda3(a, b, c float64) float64 {
+	return a*a + b*b + c*c - 2*(a*b+b*c+c*a)
+}
+
+// C0 returns the scalar three-point function C0(p1², (p2−p1)², p2²; m0, m1, m2) with s1 = p1²,
+// s2 = (p2−p1)², s3 = p2² and the squared masses m02, m12, m22, for any real invariants and
+// non-negative masses. Infrared-divergent configurations (a massless line between two on-shell
+// legs, or two massless lines around a light-like leg) give their poles in dimensional
+// regularisation; docs/INTEGRALS.md lists them.
+func C0(s1, s2, s3, m02, m12, m22, mu2 float64) (Value, error) {
+	if err := checkInputs("C0", []float64{s1, s2, s3}, []float64{m02, m12, m22}, mu2); err != nil {
+		return Value{}, err
+	}
+	t := newTri(s1, s2, s3, m02, m12, m22)
+	if v, ok, err := c0Divergent(&t, mu2); ok {
+		return v, err
+	}
+	f, err := c0Finite(&t)
+	if err != nil {
+		return Value{}, err
+	}
+	return Value{Finite: f}, nil
+}
+
+// c0Cond is the largest ratio (sum of the magnitudes of the parts)/(|result|) accepted from the
+// float64 formula; above it the arbitrary-precision path is used.
+const c0Cond = 1e3
+
+// c0Finite evaluates an infrared-finite triangle.
+func c0Finite(t *tri) (complex128, error) {
+	sc := t.scale()
+	if sc == 0 {
+		return 0, fmt.Errorf("%w: C0 with all masses and invariants zero (scaleless)", ErrNotCovered)
+	}
+	// zero external momenta
+	if same(t.s[0][1], 0, sc) && same(t.s[1][2], 0, sc) && same(t.s[0][2], 0, sc) {
+		return complex(-dividedXlnX([]float64{t.m2[0], t.m2[1], t.m2[2]}), 0), nil
+	}
+	if k := t.variation(); k <= quadKappa {
+		return complex(t.quadrature(k), 0), nil
+	}
+	v, cond, err := c0Projective(t)
+	if err == nil && cond <= c0Cond {
+		return v, nil
+	}
+	return c0Fallback(t, err)
+}
+
+// c0Projective evaluates C0 by the projective form of 't Hooft and Veltman's method
+// (Nucl. Phys. B153 (1979) 365, section 5; derivation in docs/INTEGRALS.md):
+//
+//	C0 = ½ Σ_i P_i ∫₀¹ [ln(F_i(t) − i0) − ln(F* − i0)] / B_i(t) dt,
+//
+// where P (ΣP_i = 0, Pᵀ Y P = 0) is one of the two points where the line at infinity of the
+// Feynman-parameter plane meets the conic F = 0, F_i and B_i(t) = (Y P)·x(t) are the quadric and
+// the polar form on the edge opposite vertex i, and F* = det Y / det G is the value of F at the
+// pole x* of the line at infinity. It returns the value and the ratio of the summed magnitudes of
+// the parts to the magnitude of the result.
+func c0Projective(t *tri) (complex128, float64, error) {
+	s01, s12, s02 := t.s[0][1], t.s[1][2], t.s[0][2]
+	lam := lambda3(s01, s12, s02)
+	sc := scaleOf(s01, s12, s02)
+	if math.Abs(lam) <= 1e-13*sc*sc {
+		return c0DegenerateGram(t)
+	}
+	// Gram matrix of p1 = k1 − k0, p2 = k2 − k0 and the vector f_j = (m_j² − m0² − s_0j)/2:
+	// det Y = m0² det G − fᵀ adj(G) f, so F* − m0² = −fᵀ adj(G) f / det G without cancellation.
+	g11, g22 := s01, s02
+	g12 := 0.5 * (s01 + s02 - s12)
+	detG := -lam / 4
+	f1 := 0.5 * (t.m2[1] - t.m2[0] - s01)
+	f2 := 0.5 * (t.m2[2] - t.m2[0] - s02)
+	phiStar := -(f1*f1*g22 - 2*f1*f2*g12 + f2*f2*g11) / detG
+	fStar := t.m2[0] + phiStar
+	// P = (a, b, −a−b) with a² s02 + a b (s02 + s12 − s01) + b² s12 = 0.
+	var P [3]complex128
+	qb := s02 + s12 - s01
+	if math.Abs(s02) >= math.Abs(s12) {
+		a := quadRoot(s02, qb, s12, lam)
+		P = [3]complex128{a, 1, -a - 1}
+	} else {
+		b := quadRoot(s12, qb, s02, lam)
+		P = [3]complex128{1, b, -1 - b}
+	}
+	var l [3]complex128
+	for i := 0; i < 3; i++ {
+		for k := 0; k < 3; k++ {
+			l[i] += complex(t.y(i, k), 0) * P[k]
+		}
+	}
+	lnFStar := lnMinusI0(fStar)
+	var sum complex128
+	mag := 0.0
+	for i := 0; i < 3; i++ {
+		if P[i] == 0 {
+			continue
+		}
+		j, k := edge(i)
+		A, B, C := t.quad(i)
+		beta := l[k] - l[j]
+		pre := P[i] / 2
+		if cmplx.Abs(beta) <= 1e-15*(cmplx.Abs(l[j])+cmplx.Abs(l[k])) {
+			// B_i constant on the edge
+			li := logIntegral(A, t.m2[j], t.m2[k])
+			e := (li - lnFStar) / l[j]
+			sum += pre * e
+			mag += cmplx.Abs(pre) * (cmplx.Abs(li) + cmplx.Abs(lnFStar)) / cmplx.Abs(l[j])
+			continue
+		}
+		t0 := -l[j] / beta
+		e, m := edgeIntegral(A, B, C, t0, fStar, lnFStar, t.m2[0], phiStar)
+		sum += pre * e / beta
+		mag += cmplx.Abs(pre/beta) * m
+	}
+	cond := mag / math.Max(cmplx.Abs(sum), 1e-300)
+	return sum, cond, nil
+}
+
+// quadRoot returns a root of A x² + B x + C = 0 (A ≠ 0) with discriminant lam = B² − 4AC given,
+// complex when lam < 0, computed without cancellation.
+func quadRoot(A, B, C, lam float64) complex128 {
+	if lam >= 0 {
+		q := -0.5 * (B + math.Copysign(math.Sqrt(lam), B))
+		if q == 0 {
+			return 0
+		}
+		return complex(q/A, 0)
+	}
+	return complex(-B/(2*A), math.Sqrt(-lam)/(2*A))
+}
+
+// lnMinusI0 returns ln(x − i0) for real x.
+func lnMinusI0(x float64) complex128 {
+	if x < 0 {
+		return complex(math.Log(-x), -math.Pi)
+	}
+	return complex(math.Log(x), 0)
+}
+
+// edgeIntegral returns ∫₀¹ [ln(F(t) − i0) − ln(F* − i0)]/(t − t0) dt for F(t) = A t² + B t + C, and
+// a magnitude estimate. F* = m0sq + phiStar is passed in both forms, so that F(t0) − F* is formed
+// without cancellation when F is nearly constant.
+func edgeIntegral(A, B, C float64, t0 complex128, fStar float64, lnFStar complex128, m0sq, phiStar float64) (complex128, float64) {
+	roots, lnLead, ok := quadRootsI0(A, B, C)
+	var sum complex128
+	mag := 0.0
+	rough := lnLead
+	for _, y := range roots {
+		if t0 == y {
+			// cannot happen for F* ≠ 0 (B and F vanish together only on the degenerate conic)
+			continue
+		}
+		r, m := rfun(t0, y)
+		sum += r
+		mag += m
+		rough += clog(t0 - y)
+	}
+	if !ok {
+		return cmplx.NaN(), math.Inf(1)
+	}
+	// the constant ln F(t0) − ln F*, with the branch implied by the root decomposition
+	rough -= lnFStar
+	ft0 := (complex(A, 0)*t0+complex(B, 0))*t0 + complex(C, 0)
+	diff := (complex(A, 0)*t0+complex(B, 0))*t0 + complex((C-m0sq)-phiStar, 0)
+	var acc complex128
+	if cmplx.Abs(diff) < 0.5*math.Abs(fStar) {
+		acc = log1p(diff / complex(fStar, 0))
+	} else {
+		acc = clog(ft0) - lnFStar
+	}
+	k := math.Round(imag(rough-acc) / (2 * math.Pi))
+	acc += complex(0, 2*math.Pi*k)
+	if acc != 0 {
+		l := lt0(t0)
+		sum += acc * l
+		mag += cmplx.Abs(acc) * cmplx.Abs(l)
+	}
+	return sum, mag
+}
+
+// quadRootsI0 returns the roots of F(t) − i0 = A t² + B t + C − i0 (real roots carry the sign of
+// their infinitesimal imaginary part, Im y = +0/F′(y)) and the constant ln A + 2πi n such that
+// ln(F(t) − i0) = lnLead + Σ ln(t − y) on [0, 1]. ok is false for F ≡ 0.
+func quadRootsI0(A, B, C float64) (roots []complex128, lnLead complex128, ok bool) {
+	var buf [2]complex128
+	roots = buf[:0]
+	switch {
+	case A != 0:
+		disc := B*B - 4*A*C
+		if disc >= 0 {
+			q := -0.5 * (B + math.Copysign(math.Sqrt(disc), B))
+			var y1, y2 float64
+			if q == 0 {
+				y1, y2 = 0, 0
+			} else {
+				y1, y2 = q/A, C/q
+			}
+			// F′(y) = A(y − y_other)
+			if y1 == y2 {
+				// double root: F = A(t − y)² ≥ 0 or ≤ 0; give the pair opposite infinitesimals
+				roots = append(roots, withI0(y1, 1), withI0(y2, -1))
+			} else {
+				roots = append(roots, withI0(y1, A*(y1-y2)), withI0(y2, A*(y2-y1)))
+			}
+		} else {
+			sq := math.Sqrt(-disc)
+			roots = append(roots, complex(-B/(2*A), sq/(2*A)), complex(-B/(2*A), -sq/(2*A)))
+		}
+		lnLead = lnMinusI0(A)
+	case B != 0:
+		y := -C / B
+		roots = append(roots, withI0(y, B))
+		lnLead = lnMinusI0(B)
+	case C != 0:
+		return nil, lnMinusI0(C), true
+	default:
+		return nil, 0, false
+	}
+	// fix the branch at a point of [0, 1] where F ≠ 0
+	for _, tm := range []float64{0.5, 0.3819660112501051, 0.7236067977499789, 0.1, 0.9} {
+		f := (A*tm+B)*tm + C
+		if f == 0 {
+			continue
+		}
+		// only the arguments matter: arg(F − i0) − arg(lead) − Σ arg(t − y) = 2π n
+		ph := imag(lnLead)
+		for _, y := range roots {
+			ph += cmplx.Phase(complex(tm, 0) - y)
+		}
+		fph := 0.0
+		if f < 0 {
+			fph = -math.Pi
+		}
+		n := math.Round((fph - ph) / (2 * math.Pi))
+		lnLead += complex(0, 2*math.Pi*n)
+		break
+	}
+	return roots, lnLead, true
+}
