@@ -59,20 +59,28 @@ func (c Const) order() int  { return classConst }
 // of the (single) argument for log and Li2: +1 means arg + i0 (the default reading of a negative
 // real argument), −1 means arg − i0.
 type Fn struct {
-	Name string
-	Args []Expr
-	I0   int
-	key  string
+	Name  string
+	Args  []Expr
+	I0    int
+	Split int // number of leading arguments printed before a ";" (invariants; masses), 0 for none
+	key   string
 }
 
 // NewFn builds a function atom.
-func NewFn(name string, i0 int, args ...Expr) Fn {
-	f := Fn{Name: name, Args: args, I0: i0}
+func NewFn(name string, i0 int, args ...Expr) Fn { return NewFnSplit(name, i0, 0, args...) }
+
+// NewFnSplit builds a function atom whose first split arguments are separated from the rest
+// by ";" in its text, as in B0(p2; m0, m1).
+func NewFnSplit(name string, i0, split int, args ...Expr) Fn {
+	f := Fn{Name: name, Args: args, I0: i0, Split: split}
 	var sb strings.Builder
 	sb.WriteString(name)
 	sb.WriteString("(")
 	for i, a := range args {
-		if i > 0 {
+		switch {
+		case i > 0 && i == split:
+			sb.WriteString("; ")
+		case i > 0:
 			sb.WriteString(", ")
 		}
 		sb.WriteString(a.String())
@@ -306,3 +314,33 @@ func atomText(a Atom, n int) string {
 
 // RatText prints a rational number the way the canonical text does.
 func RatText(r *big.Rat) string { return r.RatString() }
+
+// NewStructureF returns the canonical f(a, b, c) (slots sorted) and the sign of the
+// permutation; the sign is 0 when two slots are equal.
+func NewStructureF(a, b, c string) (Colour, int) {
+	s := []string{a, b, c}
+	sign := 1
+	for i := 0; i < 3; i++ {
+		for j := 0; j < 2-i; j++ {
+			switch {
+			case s[j] > s[j+1]:
+				s[j], s[j+1] = s[j+1], s[j]
+				sign = -sign
+			case s[j] == s[j+1]:
+				return Colour{}, 0
+			}
+		}
+	}
+	if s[0] == s[1] || s[1] == s[2] {
+		return Colour{}, 0
+	}
+	return Colour{Name: "f", Args: s}, sign
+}
+
+// NewDelta returns the canonical delta(i, j) (symmetric, slots sorted).
+func NewDelta(i, j string) Colour {
+	if j < i {
+		i, j = j, i
+	}
+	return Colour{Name: "delta", Args: []string{i, j}}
+}

@@ -30,6 +30,26 @@ type Expr struct {
 // fails with ErrTooLarge instead of exhausting memory.
 var MaxTerms = 200000
 
+// MaxPolyWork bounds the number of polynomial term products one multiplication of expressions
+// may perform, so that coefficients cannot grow without limit.
+var MaxPolyWork = 20_000_000
+
+// mulWork estimates the coefficient work of e·b.
+func mulWork(e, b Expr) int {
+	sb := 0
+	for _, y := range b.terms {
+		sb += y.Coef.num.Len() + y.Coef.Den().Len()
+	}
+	w := 0
+	for _, x := range e.terms {
+		w += (x.Coef.num.Len() + x.Coef.Den().Len()) * sb
+		if w > MaxPolyWork {
+			return w
+		}
+	}
+	return w
+}
+
 // ErrTooLarge reports that an expression outgrew MaxTerms.
 var ErrTooLarge = errors.New("expression too large")
 
@@ -191,6 +211,9 @@ func (e Expr) Mul(b Expr) (Expr, error) {
 	if len(e.terms)*len(b.terms) > MaxTerms {
 		return Expr{}, fmt.Errorf("%w: product of %d and %d terms exceeds the limit of %d", ErrTooLarge, len(e.terms), len(b.terms), MaxTerms)
 	}
+	if w := mulWork(e, b); w > MaxPolyWork {
+		return Expr{}, fmt.Errorf("%w: the product needs about %d coefficient multiplications, more than the limit of %d", ErrTooLarge, w, MaxPolyWork)
+	}
 	ts := make([]Term, 0, len(e.terms)*len(b.terms))
 	for _, x := range e.terms {
 		for _, y := range b.terms {
@@ -269,43 +292,61 @@ func Sum(es ...Expr) Expr {
 	return collect(cp)
 }
 
-// Pow returns e^n. Negative powers are allowed for a single term whose atoms may be inverted
-// (no non-commuting elements, no loops).
+// Pow returns e^n. Negative powers are allowed for a rational function and for a single term
+// whose atoms may be inverted (no non-commuting elements, no loops). Every step is a checked
+// multiplication, so growth is bounded by MaxTerms and MaxPolyWork.
 func (e Expr) Pow(n int) (Expr, error) {
 	if n < 0 {
-		if len(e.terms) != 1 {
-			if r, ok := e.AsRatFunc(); ok {
-				p, err := r.Pow(n)
-				if err != nil {
-					return Expr{}, err
-				}
-				return FromRF(p), nil
-			}
-			return Expr{}, fmt.Errorf("cannot raise a sum with non-rational parts to a negative power")
-		}
-		t := e.terms[0]
-		if len(t.NC) > 0 || len(t.Loops) > 0 {
-			return Expr{}, fmt.Errorf("cannot invert a Dirac string or a loop integral")
-		}
-		c, err := t.Coef.Pow(n)
+		inv, err := e.inverse()
 		if err != nil {
 			return Expr{}, err
 		}
-		nt := Term{Coef: c}
-		for _, a := range t.Atoms {
-			nt.Atoms = append(nt.Atoms, AtomPow{a.A, a.Pow * n})
-		}
-		return fromTerm(nt), nil
+		return inv.Pow(-n)
 	}
 	res := Int(1)
-	for range n {
+	base := e
+	for n > 0 {
 		var err error
-		res, err = res.Mul(e)
-		if err != nil {
-			return Expr{}, err
+		if n&1 == 1 {
+			if res, err = res.Mul(base); err != nil {
+				return Expr{}, err
+			}
+		}
+		n >>= 1
+		if n > 0 {
+			if base, err = base.Mul(base); err != nil {
+				return Expr{}, err
+			}
 		}
 	}
 	return res, nil
+}
+
+// inverse returns 1/e for a rational function or a single invertible term.
+func (e Expr) inverse() (Expr, error) {
+	if r, ok := e.AsRatFunc(); ok {
+		inv, err := r.Inv()
+		if err != nil {
+			return Expr{}, err
+		}
+		return FromRF(inv), nil
+	}
+	if len(e.terms) != 1 {
+		return Expr{}, fmt.Errorf("cannot invert a sum with non-rational parts")
+	}
+	t := e.terms[0]
+	if len(t.NC) > 0 || len(t.Loops) > 0 {
+		return Expr{}, fmt.Errorf("cannot invert a Dirac string or a loop integral")
+	}
+	c, err := t.Coef.Inv()
+	if err != nil {
+		return Expr{}, err
+	}
+	nt := Term{Coef: c}
+	for _, a := range t.Atoms {
+		nt.Atoms = append(nt.Atoms, AtomPow{a.A, -a.Pow})
+	}
+	return fromTerm(nt), nil
 }
 
 // normTermMust normalises a term that is known to be nonzero and well formed.
@@ -510,9 +551,14 @@ func substAtom(a Atom, v string, r RatFunc) (atomOrExpr, error) {
 		if !changed {
 			return atomOrExpr{isAtom: true, atom: a}, nil
 		}
-		e, err := Apply(x.Name, x.I0, args...)
-		if err != nil {
-			return atomOrExpr{}, err
+		var e Expr
+		if x.Split > 0 {
+			e = FromAtom(NewFnSplit(x.Name, x.I0, x.Split, args...), 1)
+		} else {
+			var err error
+			if e, err = Apply(x.Name, x.I0, args...); err != nil {
+				return atomOrExpr{}, err
+			}
 		}
 		return atomOrExpr{expr: e}, nil
 	case Prop:
@@ -628,4 +674,24 @@ func (e Expr) HasLoops() bool {
 		}
 	}
 	return false
+}
+
+// Integrate wraps every term of e in integrals over the loop momenta moms (the notation's
+// "loop k { … }"). It fails if a term is already integrated over one of them.
+func Integrate(e Expr, moms ...string) (Expr, error) {
+	ts := make([]Term, 0, len(e.terms))
+	for _, t := range e.terms {
+		for _, m := range moms {
+			if slices.Contains(t.Loops, m) {
+				return Expr{}, fmt.Errorf("%w: %s", ErrLoopTwice, m)
+			}
+		}
+		nt := t
+		nt.Loops = append(append([]string{}, t.Loops...), moms...)
+		n, ok := normTerm(nt)
+		if ok {
+			ts = append(ts, n)
+		}
+	}
+	return collect(ts), nil
 }
