@@ -149,3 +149,24 @@ func TestC0ReferenceTable(t *testing.T) {
 		}
 	}
 }
+
+func TestD0ReferenceTable(t *testing.T) {
+	// testdata/reference/one-loop-D0.tsv (mpmath Feynman-parameter quadrature, about 14
+	// significant digits): s01 s12 s23 s03 s02 s13 m0 m1 m2 m3 Re Im; tolerance 1e-12.
+	rows, texts := readTableText(t, "one-loop-D0.tsv")
+	for i, r := range rows {
+		f := func(x []float64) complex128 {
+			v, _ := D0(x[0], x[1], x[2], x[3], x[4], x[5], x[6]*x[6], x[7]*x[7], x[8]*x[8], x[9]*x[9], 1)
+			return v.Finite
+		}
+		dre, dim := inputRoundingTol(f, r[:10], texts[i][:10])
+		v, err := D0(r[0], r[1], r[2], r[3], r[4], r[5], r[6]*r[6], r[7]*r[7], r[8]*r[8], r[9]*r[9], 1)
+		if err != nil {
+			t.Errorf("D0%v: %v", r[:10], err)
+			continue
+		}
+		if !closeTo(real(v.Finite), r[10], 1e-12, dre) || !closeTo(imag(v.Finite), r[11], 1e-12, dim) {
+			t.Errorf("D0%v = %.17g, want %.17g + %.17gi", r[:10], v.Finite, r[10], r[11])
+		}
+	}
+}
