@@ -3,28 +3,9 @@ package expr
 import (
 	"fmt"
 	"math/big"
-)
 
-// bernoulli returns the Bernoulli numbers B_0 … B_n (B_1 = −1/2) by the standard recurrence
-// Σ_{k=0}^{m} binom(m+1, k) B_k = 0.
-func bernoulli(n int) []*big.Rat {
-	b := make([]*big.Rat, n+1)
-	b[0] = big.NewRat(1, 1)
-	for m := 1; m <= n; m++ {
-		s := new(big.Rat)
-		bin := big.NewInt(1) // binom(m+1, k)
-		for k := 0; k < m; k++ {
-			if k > 0 {
-				bin.Mul(bin, big.NewInt(int64(m+1-k+1)))
-				bin.Quo(bin, big.NewInt(int64(k)))
-			}
-			s.Add(s, new(big.Rat).Mul(new(big.Rat).SetInt(bin), b[k]))
-		}
-		// binom(m+1, m) = m+1
-		b[m] = s.Quo(s.Neg(s), big.NewRat(int64(m+1), 1))
-	}
-	return b
-}
+	"loopmatch/expr/specfun"
+)
 
 // ZetaValue returns ζ(k) for k ≥ 2 as an exact expression: a rational multiple of π^k for even
 // k (ζ(2n) = (−1)^{n+1} B_{2n} (2π)^{2n} / (2 (2n)!)), the constant atom zeta<k> for odd k.
@@ -35,7 +16,7 @@ func ZetaValue(k int) Expr {
 	if k%2 == 1 {
 		return FromAtom(Const{fmt.Sprintf("zeta%d", k)}, 1)
 	}
-	b := bernoulli(k)[k]
+	b := specfun.BernoulliEven(k / 2)
 	c := new(big.Rat).Abs(b)
 	c.Mul(c, new(big.Rat).SetInt(new(big.Int).Lsh(big.NewInt(1), uint(k)))) // 2^k
 	fact := new(big.Int).MulRange(1, int64(k))
