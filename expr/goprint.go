@@ -36,7 +36,10 @@ func goTerm(t Term) (string, error) {
 	if err != nil {
 		return "", err
 	}
-	factors := []string{c}
+	var factors []string
+	if c != "1" || len(t.Atoms) == 0 {
+		factors = append(factors, c)
+	}
 	var den []string
 	for _, a := range t.Atoms {
 		s, err := goAtom(a.A)
@@ -51,6 +54,9 @@ func goTerm(t Term) (string, error) {
 		factors = append(factors, goPow(s, n))
 	}
 	out := strings.Join(factors, " * ")
+	if len(factors) == 0 {
+		out = "1"
+	}
 	if len(den) > 0 {
 		out = "(" + out + ") / (" + strings.Join(den, " * ") + ")"
 	}
@@ -62,14 +68,14 @@ func goPow(s string, n int) string {
 	case n == 1:
 		return s
 	case n <= 4:
-		return "(" + strings.Repeat(s+" * ", n-1) + s + ")"
+		return "(" + strings.Repeat(s+"*", n-1) + s + ")"
 	}
 	return fmt.Sprintf("math.Pow(%s, %d)", s, n)
 }
 
 func goRat(r *big.Rat) string {
 	if r.IsInt() {
-		return "(" + r.Num().String() + ".0)"
+		return r.Num().String()
 	}
 	return "(" + r.Num().String() + ".0 / " + r.Denom().String() + ")"
 }
@@ -78,18 +84,34 @@ func goPoly(p Poly) (string, error) {
 	if p.IsZero() {
 		return "0", nil
 	}
-	var parts []string
-	for _, t := range p.terms {
-		f := []string{goRat(t.Coef)}
+	var sb strings.Builder
+	for i, t := range p.terms {
+		neg := t.Coef.Sign() < 0
+		abs := new(big.Rat).Abs(t.Coef)
+		switch {
+		case i == 0 && neg:
+			sb.WriteString("-")
+		case i > 0 && neg:
+			sb.WriteString(" - ")
+		case i > 0:
+			sb.WriteString(" + ")
+		}
+		var f []string
+		if abs.Cmp(ratOne) != 0 || len(t.Mono) == 0 {
+			f = append(f, goRat(abs))
+		}
 		for _, vp := range t.Mono {
 			if !isGoIdent(vp.Var) {
 				return "", fmt.Errorf("the symbol %s has no real float64 form", vp.Var)
 			}
 			f = append(f, goPow(vp.Var, vp.Exp))
 		}
-		parts = append(parts, strings.Join(f, " * "))
+		sb.WriteString(strings.Join(f, "*"))
 	}
-	return "(" + strings.Join(parts, " + ") + ")", nil
+	if len(p.terms) == 1 && p.terms[0].Coef.Sign() > 0 {
+		return sb.String(), nil
+	}
+	return "(" + sb.String() + ")", nil
 }
 
 func goRatFunc(r RatFunc) (string, error) {

@@ -198,7 +198,8 @@ type Row struct {
 
 // Expr is a sum of products with an optional leading minus.
 type Expr struct {
-	Pos   lexer.Position
+	Pos    lexer.Position
+	EndPos lexer.Position
 	Neg   bool       `parser:"@\"-\"?"`
 	First *Product   `parser:"@@"`
 	Rest  []*AddTerm `parser:"@@*"`

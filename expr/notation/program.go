@@ -117,6 +117,7 @@ type Amplitude struct {
 type Operator struct {
 	Name string
 	Body *Expr
+	Text string // the definition as written
 	Pos  Pos
 }
 
@@ -149,6 +150,7 @@ type Program struct {
 	Values     map[string]expr.Expr
 	ValueOrder []string
 	defines    map[string]*DefineStmt
+	src        []byte
 	loopSites  map[string]lexer.Position // every loop momentum name and where it was opened
 }
 
@@ -211,6 +213,7 @@ func Parse(file string, src []byte) (*Program, error) {
 		return nil, err
 	}
 	p := &Program{
+		src:  src,
 		File: file, Decls: map[string]*Decl{}, Values: map[string]expr.Expr{},
 		defines: map[string]*DefineStmt{}, loopSites: map[string]lexer.Position{},
 	}
@@ -550,13 +553,22 @@ func (p *Program) statement(st *Stmt) error {
 		if err := p.checkOperator(o.Body); err != nil {
 			return err
 		}
-		p.Operators = append(p.Operators, &Operator{Name: o.Name, Body: o.Body, Pos: posOf(o.Pos)})
+		p.Operators = append(p.Operators, &Operator{Name: o.Name, Body: o.Body, Text: p.sourceText(o.Body), Pos: posOf(o.Pos)})
 	case st.Match != nil:
 		return p.match(st.Match)
 	case st.Anomalous != nil:
 		return p.anomalous(st.Anomalous)
 	}
 	return nil
+}
+
+// sourceText returns the source of an expression with its whitespace collapsed.
+func (p *Program) sourceText(e *Expr) string {
+	a, b := e.Pos.Offset, e.EndPos.Offset
+	if a < 0 || b > len(p.src) || a >= b {
+		return ""
+	}
+	return strings.Join(strings.Fields(string(p.src[a:b])), " ")
 }
 
 func isParameter(k Kind) bool {

@@ -1,0 +1,110 @@
+package main
+
+import (
+	"bytes"
+	"flag"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+var update = flag.Bool("update", false, "rewrite the golden files in testdata/golden")
+
+// runCLI runs the command line and returns stdout, stderr and the exit code.
+func runCLI(args ...string) (string, string, int) {
+	var out, errOut bytes.Buffer
+	code := run(args, &out, &errOut)
+	return out.String(), errOut.String(), code
+}
+
+// TestCheckGolden compares `loopmatch check` on every shipped example with its golden output.
+func TestCheckGolden(t *testing.T) {
+	files, _ := filepath.Glob("../../testdata/*.lm")
+	if len(files) < 3 {
+		t.Fatalf("expected at least three example files, found %d", len(files))
+	}
+	for _, f := range files {
+		base := strings.TrimSuffix(filepath.Base(f), ".lm")
+		for _, fm := range []string{"text", "json"} {
+			out, errOut, code := runCLI("check", f, "--format", fm)
+			if code != exitOK {
+				t.Fatalf("check %s: exit %d: %s", f, code, errOut)
+			}
+			golden := filepath.Join("../../testdata/golden", "check-"+base+"."+fm)
+			if *update {
+				if err := os.MkdirAll(filepath.Dir(golden), 0o755); err != nil {
+					t.Fatal(err)
+				}
+				if err := os.WriteFile(golden, []byte(out), 0o644); err != nil {
+					t.Fatal(err)
+				}
+				continue
+			}
+			want, err := os.ReadFile(golden)
+			if err != nil {
+				t.Fatalf("%v (run go test ./cmd/loopmatch -update)", err)
+			}
+			if out != string(want) {
+				t.Errorf("check %s --format %s differs from %s:\n%s", f, fm, golden, out)
+			}
+		}
+	}
+}
+
+func TestSimplify(t *testing.T) {
+	cases := []struct {
+		args []string
+		want string
+	}{
+		// The examples of the project's issue 2.
+		{[]string{"simplify", "(x^2-1)/(x-1)"}, "x + 1\n"},
+		{[]string{"simplify", "(a^3-b^3)/(a^2-b^2)", "--format", "latex"}, "\\frac{a^{2} + a b + b^{2}}{a + b}\n"},
+		{[]string{"simplify", "--format=go", "(a^3-b^3)/(a^2-b^2)"}, "(((a*a) + a*b + (b*b)) / (a + b))\n"},
+		{[]string{"simplify", "-x + x"}, "0\n"},
+	}
+	for _, c := range cases {
+		out, errOut, code := runCLI(c.args...)
+		if code != exitOK || out != c.want {
+			t.Errorf("%v: got %q (exit %d, %s), want %q", c.args, out, code, errOut, c.want)
+		}
+	}
+}
+
+func TestExitCodes(t *testing.T) {
+	cases := []struct {
+		args    []string
+		code    int
+		errPart string
+	}{
+		{nil, exitBadInput, "Usage"},
+		{[]string{"nonsense"}, exitBadInput, "unknown command"},
+		{[]string{"check"}, exitBadInput, "expected one FILE"},
+		{[]string{"check", "no-such-file.lm"}, exitBadInput, "cannot read no-such-file.lm"},
+		{[]string{"check", "../../testdata/integrals.lm", "--format", "pdf"}, exitBadInput, "unknown format"},
+		{[]string{"simplify", "x +"}, exitBadInput, "<expr>:1:4: expected an expression"},
+		{[]string{"simplify", "I*x", "--format", "go"}, exitBadInput, "I has no real float64 form"},
+		{[]string{"help", "nonsense"}, exitBadInput, "unknown command"},
+		{[]string{"version"}, exitOK, ""},
+		{[]string{"help", "simplify"}, exitOK, ""},
+	}
+	for _, c := range cases {
+		_, errOut, code := runCLI(c.args...)
+		if code != c.code || !strings.Contains(errOut, c.errPart) {
+			t.Errorf("%v: exit %d, stderr %q; want exit %d containing %q", c.args, code, errOut, c.code, c.errPart)
+		}
+	}
+}
+
+// TestBadFileError checks that a malformed file gives file:line:col on stderr and exit 2.
+func TestBadFileError(t *testing.T) {
+	dir := t.TempDir()
+	f := filepath.Join(dir, "bad.lm")
+	if err := os.WriteFile(f, []byte("masses M\namplitude X = M *\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, errOut, code := runCLI("check", f)
+	if code != exitBadInput || !strings.Contains(errOut, f+":3:1: expected an expression, found the end of the file") {
+		t.Errorf("exit %d, stderr %q", code, errOut)
+	}
+}
