@@ -200,9 +200,9 @@ type Row struct {
 type Expr struct {
 	Pos    lexer.Position
 	EndPos lexer.Position
-	Neg   bool       `parser:"@\"-\"?"`
-	First *Product   `parser:"@@"`
-	Rest  []*AddTerm `parser:"@@*"`
+	Neg    bool       `parser:"@\"-\"?"`
+	First  *Product   `parser:"@@"`
+	Rest   []*AddTerm `parser:"@@*"`
 }
 
 // AddTerm is ± Product.
