@@ -118,6 +118,28 @@ type projPoint struct {
 // on an edge line (μ e_a + ν e_b), or at a vertex of a massless line (P = e_a, one face).
 // Derivation and conditions in docs/INTEGRALS.md.
 func d0Projection(bx *box) (complex128, float64, error) {
+	ch, err := selectProjection(bx)
+	if err != nil {
+		return 0, 0, err
+	}
+	return d0FromPoint(bx, ch.P, ch.l)
+}
+
+// projChoice records the projection point chosen for a box, so that the arbitrary-precision
+// path can recompute the same point: an edge point μ e_a + ν e_b, or P = Y⁻¹ v with
+// v = 1 + τ d.
+type projChoice struct {
+	edge   bool
+	a, b   int
+	mu, nu float64
+	d      [4]float64
+	tau    float64
+	P, l   [4]float64
+}
+
+// selectProjection prefers a well-balanced edge point (two faces), then a general point (four
+// faces), then any admissible edge point.
+func selectProjection(bx *box) (projChoice, error) {
 	best := projPoint{score: -1}
 	for a := 0; a < 4; a++ {
 		for c := a + 1; c < 4; c++ {
@@ -128,21 +150,21 @@ func d0Projection(bx *box) (complex128, float64, error) {
 			}
 		}
 	}
-	if best.score >= 0.05 {
-		P := [4]float64{}
-		P[best.a], P[best.b] = best.mu, best.nu
-		return d0FromPoint(bx, P, best.l)
+	edgeChoice := func() projChoice {
+		ch := projChoice{edge: true, a: best.a, b: best.b, mu: best.mu, nu: best.nu, l: best.l}
+		ch.P[best.a], ch.P[best.b] = best.mu, best.nu
+		return ch
 	}
-	// a general real point P = Y⁻¹ v of the quadric with v > 0 (then l = Y P = v)
-	if P, l, ok := generalPoint(bx); ok {
-		return d0FromPoint(bx, P, l)
+	if best.score >= 0.05 {
+		return edgeChoice(), nil
+	}
+	if ch, ok := generalPoint(bx); ok {
+		return ch, nil
 	}
 	if best.score > 0 {
-		P := [4]float64{}
-		P[best.a], P[best.b] = best.mu, best.nu
-		return d0FromPoint(bx, P, best.l)
+		return edgeChoice(), nil
 	}
-	return 0, 0, fmt.Errorf("%w: D0 with no real point P of the quadric F = 0 whose polar form xᵀYP keeps one sign on the simplex (a physical-region configuration; invariants %v, masses² %v)",
+	return projChoice{}, fmt.Errorf("%w: D0 with no real point P of the quadric F = 0 whose polar form xᵀYP keeps one sign on the simplex (a physical-region configuration; invariants %v, masses² %v)",
 		ErrNotCovered, bx.s, bx.m2)
 }
 
@@ -193,10 +215,10 @@ func d0FromPoint(bx *box, P, l [4]float64) (complex128, float64, error) {
 // generalPoint looks for v > 0 with vᵀ Y⁻¹ v = 0 along the lines v = 1 + τ d for a few directions d,
 // keeping the most balanced v (largest min v/max v). Then P = Y⁻¹ v lies on the quadric and its
 // polar form Σ v_j x_j is positive on the simplex.
-func generalPoint(bx *box) (P, l [4]float64, ok bool) {
+func generalPoint(bx *box) (ch projChoice, ok bool) {
 	Z, inv := inverse4(bx)
 	if !inv {
-		return P, l, false
+		return ch, false
 	}
 	q := func(a, b [4]float64) float64 {
 		s := 0.0
@@ -236,11 +258,10 @@ func generalPoint(bx *box) (P, l [4]float64, ok bool) {
 				continue
 			}
 			bestScore = lo / hi
-			l = v
+			ch = projChoice{d: d, tau: tau, l: v}
 			for i := 0; i < 4; i++ {
-				P[i] = 0
 				for j := 0; j < 4; j++ {
-					P[i] += Z[i][j] * v[j]
+					ch.P[i] += Z[i][j] * v[j]
 				}
 			}
 			ok = true
@@ -258,7 +279,7 @@ func generalPoint(bx *box) (P, l [4]float64, ok bool) {
 			try(e)
 		}
 	}
-	return P, l, ok && bestScore > 1e-3
+	return ch, ok && bestScore > 1e-3
 }
 
 // inverse4 returns Y⁻¹ by Gauss–Jordan elimination with partial pivoting.

@@ -1,0 +1,382 @@
+package loops
+
+import (
+	"fmt"
+	"math"
+	"math/big"
+	"sort"
+)
+
+// btri is a triangle with arbitrary-precision entries (see tri).
+type btri struct {
+	m2 [3]*big.Float
+	s  [3][3]*big.Float
+}
+
+func (n bnum) tri(s01, s12, s02, m0, m1, m2 *big.Float) btri {
+	var t btri
+	t.m2 = [3]*big.Float{n.fl(m0), n.fl(m1), n.fl(m2)}
+	z := n.f(0)
+	t.s = [3][3]*big.Float{{z, n.fl(s01), n.fl(s02)}, {n.fl(s01), z, n.fl(s12)}, {n.fl(s02), n.fl(s12), z}}
+	return t
+}
+
+func (n bnum) triFromFloat(t *tri) btri {
+	return n.tri(n.f(t.s[0][1]), n.f(t.s[1][2]), n.f(t.s[0][2]), n.f(t.m2[0]), n.f(t.m2[1]), n.f(t.m2[2]))
+}
+
+func (n bnum) ty(t *btri, i, j int) *big.Float {
+	if i == j {
+		return n.fl(t.m2[i])
+	}
+	y := new(big.Float).SetPrec(n.w).Add(t.m2[i], t.m2[j])
+	y.Sub(y, t.s[i][j])
+	return y.Quo(y, n.f(2))
+}
+
+func (n bnum) toFloatTri(t *btri) tri {
+	var u tri
+	for i := 0; i < 3; i++ {
+		u.m2[i], _ = t.m2[i].Float64()
+		for j := 0; j < 3; j++ {
+			u.s[i][j], _ = t.s[i][j].Float64()
+		}
+	}
+	return u
+}
+
+// sameBig compares within 2^{−w/2} of the scale (the arbitrary-precision counterpart of same).
+func (n bnum) same(a, b *big.Float, scale float64) bool {
+	d := new(big.Float).Sub(a, b)
+	f, _ := d.Float64()
+	return math.Abs(f) <= math.Ldexp(scale, -int(n.w/2))
+}
+
+// c0 evaluates C0 at working precision n.w (including the infrared-divergent triangles).
+func (n bnum) c0(t *btri, mu2 *big.Float) (BigValue, error) {
+	ft := n.toFloatTri(t)
+	sc := ft.scale()
+	if v, ok := n.c0Divergent(t, &ft, sc, mu2); ok {
+		return v, nil
+	}
+	f, err := n.c0Finite(t)
+	return BigValue{Pole2: n.zero(), Pole1: n.zero(), Finite: f}, err
+}
+
+func (n bnum) c0Finite(t *btri) (bc, error) {
+	ft := n.toFloatTri(t)
+	sc := ft.scale()
+	if sc == 0 {
+		return bc{}, fmt.Errorf("%w: C0 with all masses and invariants zero (scaleless)", ErrNotCovered)
+	}
+	if t.s[0][1].Sign() == 0 && t.s[1][2].Sign() == 0 && t.s[0][2].Sign() == 0 {
+		g := n.dividedXlnX(t.m2[:])
+		return n.r(g.Neg(g)), nil
+	}
+	s01, s12, s02 := t.s[0][1], t.s[1][2], t.s[0][2]
+	lam := n.lambda3(s01, s12, s02)
+	if lam.Sign() == 0 {
+		return n.c0DegenerateGram(t)
+	}
+	return n.c0Projective(t, lam)
+}
+
+func (n bnum) lambda3(a, b, c *big.Float) *big.Float {
+	w := n.w
+	sq := func(x *big.Float) *big.Float { return new(big.Float).SetPrec(w).Mul(x, x) }
+	mul := func(x, y *big.Float) *big.Float { return new(big.Float).SetPrec(w).Mul(x, y) }
+	s := sq(a)
+	s.Add(s, sq(b))
+	s.Add(s, sq(c))
+	p := mul(a, b)
+	p.Add(p, mul(b, c))
+	p.Add(p, mul(c, a))
+	p.Mul(p, n.f(2))
+	return s.Sub(s, p)
+}
+
+// c0Projective is the arbitrary-precision form of the projective formula of c0Projective.
+func (n bnum) c0Projective(t *btri, lam *big.Float) (bc, error) {
+	w := n.w
+	s01, s12, s02 := t.s[0][1], t.s[1][2], t.s[0][2]
+	mul := func(x, y *big.Float) *big.Float { return new(big.Float).SetPrec(w).Mul(x, y) }
+	half := n.f(0.5)
+	g11, g22 := s01, s02
+	g12 := new(big.Float).SetPrec(w).Add(s01, s02)
+	g12.Sub(g12, s12)
+	g12.Mul(g12, half)
+	detG := new(big.Float).SetPrec(w).Quo(lam, n.f(-4))
+	f1 := new(big.Float).SetPrec(w).Sub(t.m2[1], t.m2[0])
+	f1.Sub(f1, s01)
+	f1.Mul(f1, half)
+	f2 := new(big.Float).SetPrec(w).Sub(t.m2[2], t.m2[0])
+	f2.Sub(f2, s02)
+	f2.Mul(f2, half)
+	q := mul(mul(f1, f1), g22)
+	q.Sub(q, mul(mul(mul(f1, f2), g12), n.f(2)))
+	q.Add(q, mul(mul(f2, f2), g11))
+	phiStar := new(big.Float).SetPrec(w).Quo(q, detG)
+	phiStar.Neg(phiStar)
+	fStar := new(big.Float).SetPrec(w).Add(t.m2[0], phiStar)
+	lnFStar := n.lnMinusI0(fStar)
+	// P = (a, 1, −a−1) or (1, b, −1−b)
+	qb := new(big.Float).SetPrec(w).Add(s02, s12)
+	qb.Sub(qb, s01)
+	var P [3]bc
+	if new(big.Float).Abs(s02).Cmp(new(big.Float).Abs(s12)) >= 0 {
+		a := n.quadRoot(s02, qb, s12, lam)
+		P = [3]bc{a, n.one(), a.Neg().Sub(n.one())}
+	} else {
+		b := n.quadRoot(s12, qb, s02, lam)
+		P = [3]bc{n.one(), b, b.Neg().Sub(n.one())}
+	}
+	var l [3]bc
+	for i := 0; i < 3; i++ {
+		l[i] = n.zero()
+		for k := 0; k < 3; k++ {
+			l[i] = l[i].Add(P[k].Scale(n.ty(t, i, k)))
+		}
+	}
+	sum := n.zero()
+	for i := 0; i < 3; i++ {
+		if P[i].IsZero() {
+			continue
+		}
+		j, k := edge(i)
+		A := n.fl(t.s[j][k])
+		B := new(big.Float).SetPrec(w).Sub(t.m2[k], t.m2[j])
+		B.Sub(B, A)
+		C := n.fl(t.m2[j])
+		beta := l[k].Sub(l[j])
+		pre := P[i].Scale(half)
+		if beta.IsZero() {
+			li := n.logIntegral(A, t.m2[j], t.m2[k])
+			sum = sum.Add(pre.Mul(li.Sub(lnFStar)).Quo(l[j]))
+			continue
+		}
+		t0 := l[j].Neg().Quo(beta)
+		e, err := n.edgeIntegral(A, B, C, t0, fStar, lnFStar)
+		if err != nil {
+			return bc{}, err
+		}
+		sum = sum.Add(pre.Mul(e).Quo(beta))
+	}
+	return sum, nil
+}
+
+func (n bnum) quadRoot(A, B, C, lam *big.Float) bc {
+	w := n.w
+	if lam.Sign() >= 0 {
+		sq := new(big.Float).SetPrec(w).Sqrt(lam)
+		if B.Sign() < 0 {
+			sq.Neg(sq)
+		}
+		q := new(big.Float).SetPrec(w).Add(B, sq)
+		q.Quo(q, n.f(-2))
+		if q.Sign() == 0 {
+			return n.zero()
+		}
+		return n.r(q.Quo(q, A))
+	}
+	sq := new(big.Float).SetPrec(w).Sqrt(new(big.Float).Neg(lam))
+	twoA := new(big.Float).SetPrec(w).Mul(A, n.f(2))
+	re := new(big.Float).SetPrec(w).Quo(new(big.Float).Neg(B), twoA)
+	return bc{Re: re, Im: sq.Quo(sq, twoA)}
+}
+
+// edgeIntegral is the arbitrary-precision ∫₀¹ [ln(F(t) − i0) − ln(F* − i0)]/(t − t0) dt.
+func (n bnum) edgeIntegral(A, B, C *big.Float, t0 bc, fStar *big.Float, lnFStar bc) (bc, error) {
+	roots, lnLead, ok := n.quadRootsI0(A, B, C)
+	if !ok {
+		return bc{}, fmt.Errorf("%w: C0 with a vanishing edge quadratic", ErrNotCovered)
+	}
+	sum := n.zero()
+	rough := lnLead
+	for _, y := range roots {
+		sum = sum.Add(n.rfun(t0, y))
+		rough = rough.Add(n.log(t0.Sub(y)))
+	}
+	rough = rough.Sub(lnFStar)
+	ft0 := t0.Scale(A).Add(n.r(B)).Mul(t0).Add(n.r(C))
+	acc := n.log(ft0).Sub(lnFStar)
+	k := math.Round((n.imF(rough) - n.imF(acc)) / (2 * math.Pi))
+	if k != 0 {
+		acc = acc.Add(bc{Re: n.f(0), Im: new(big.Float).SetPrec(n.w).Mul(n.pi(), n.f(2*k))})
+	}
+	if !acc.IsZero() {
+		sum = sum.Add(acc.Mul(n.lt0(t0)))
+	}
+	return sum, nil
+}
+
+func (n bnum) imF(z bc) float64 { f, _ := z.Im.Float64(); return f }
+
+// dividedXlnX is the arbitrary-precision divided difference of x ln x (see dividedXlnX).
+func (n bnum) dividedXlnX(xs []*big.Float) *big.Float {
+	w := n.w
+	x := make([]*big.Float, len(xs))
+	for i := range xs {
+		x[i] = n.fl(xs[i])
+	}
+	sort.Slice(x, func(i, j int) bool { return x[i].Cmp(x[j]) < 0 })
+	m := len(x)
+	b := x[m/2]
+	spread := new(big.Float).SetPrec(w).Sub(x[m-1], x[0])
+	lim := new(big.Float).SetPrec(w).Mul(b, n.f(0.3))
+	if b.Sign() > 0 && spread.Cmp(lim) <= 0 {
+		d := make([]*big.Float, m)
+		for i := range x {
+			d[i] = new(big.Float).SetPrec(w).Sub(x[i], b)
+			d[i].Quo(d[i], b)
+		}
+		K := int(w) + 20
+		h := make([]*big.Float, K)
+		h[0] = n.f(1)
+		for k := 1; k < K; k++ {
+			h[k] = n.f(0)
+		}
+		for _, di := range d {
+			for k := 1; k < K; k++ {
+				h[k].Add(h[k], new(big.Float).SetPrec(w).Mul(di, h[k-1]))
+			}
+		}
+		s := n.f(0)
+		for k := 0; k < K; k++ {
+			j := float64(k + m - 1)
+			t := new(big.Float).SetPrec(w).Quo(h[k], n.f(j*(j-1)))
+			if (k+m-1)%2 == 1 {
+				s.Sub(s, t)
+			} else {
+				s.Add(s, t)
+			}
+		}
+		bp := n.f(1)
+		for i := 0; i < m-2; i++ {
+			bp.Mul(bp, b)
+		}
+		return s.Quo(s, bp)
+	}
+	xlnx := func(v *big.Float) *big.Float {
+		if v.Sign() == 0 {
+			return n.f(0)
+		}
+		l := n.log(n.r(v)).Re
+		return l.Mul(l, v)
+	}
+	g := make([]*big.Float, m)
+	for i := 0; i+1 < m; i++ {
+		if x[i].Cmp(x[i+1]) == 0 {
+			g[i] = n.log(n.r(x[i])).Re
+			g[i].Add(g[i], n.f(1))
+		} else {
+			g[i] = new(big.Float).SetPrec(w).Sub(xlnx(x[i+1]), xlnx(x[i]))
+			g[i].Quo(g[i], new(big.Float).SetPrec(w).Sub(x[i+1], x[i]))
+		}
+	}
+	for order := 2; order < m; order++ {
+		for i := 0; i+order < m; i++ {
+			g[i] = new(big.Float).SetPrec(w).Sub(g[i+1], g[i])
+			g[i].Quo(g[i], new(big.Float).SetPrec(w).Sub(x[i+order], x[i]))
+		}
+	}
+	return g[0]
+}
+
+// c0DegenerateGram is the arbitrary-precision form of c0DegenerateGram (λ = 0 exactly).
+func (n bnum) c0DegenerateGram(t *btri) (bc, error) {
+	w := n.w
+	s01, s12, s02 := t.s[0][1], t.s[1][2], t.s[0][2]
+	qv := new(big.Float).SetPrec(w).Add(s02, s12)
+	qv.Sub(qv, s01)
+	var P [3]*big.Float
+	if new(big.Float).Abs(s02).Cmp(new(big.Float).Abs(s12)) >= 0 {
+		a := new(big.Float).SetPrec(w).Quo(qv, new(big.Float).SetPrec(w).Mul(s02, n.f(-2)))
+		P = [3]*big.Float{a, n.f(1), new(big.Float).SetPrec(w).Sub(new(big.Float).Neg(a), n.f(1))}
+	} else {
+		b := new(big.Float).SetPrec(w).Quo(qv, new(big.Float).SetPrec(w).Mul(s12, n.f(-2)))
+		P = [3]*big.Float{n.f(1), b, new(big.Float).SetPrec(w).Sub(new(big.Float).Neg(b), n.f(1))}
+	}
+	var l [3]*big.Float
+	for i := 0; i < 3; i++ {
+		l[i] = n.f(0)
+		for k := 0; k < 3; k++ {
+			l[i].Add(l[i], new(big.Float).SetPrec(w).Mul(n.ty(t, i, k), P[k]))
+		}
+	}
+	bb := new(big.Float).SetPrec(w).Add(l[0], l[1])
+	bb.Add(bb, l[2])
+	bb.Quo(bb, n.f(3))
+	if bb.Sign() == 0 {
+		return n.c0Chord(t, P)
+	}
+	sum := n.zero()
+	for i := 0; i < 3; i++ {
+		if P[i].Sign() == 0 {
+			continue
+		}
+		j, k := edge(i)
+		sum = sum.Add(n.logIntegral(t.s[j][k], t.m2[j], t.m2[k]).Scale(P[i]))
+	}
+	return sum.Scale(new(big.Float).SetPrec(w).Quo(n.f(0.5), bb)), nil
+}
+
+// c0Chord is the arbitrary-precision form of c0Chord.
+func (n bnum) c0Chord(t *btri, P [3]*big.Float) (bc, error) {
+	w := n.w
+	wv := [3]*big.Float{
+		new(big.Float).SetPrec(w).Sub(P[1], P[2]),
+		new(big.Float).SetPrec(w).Sub(P[2], P[0]),
+		new(big.Float).SetPrec(w).Sub(P[0], P[1]),
+	}
+	idx := []int{0, 1, 2}
+	sort.Slice(idx, func(a, b int) bool { return wv[idx[a]].Cmp(wv[idx[b]]) < 0 })
+	lo, mid, hi := idx[0], idx[1], idx[2]
+	span := new(big.Float).SetPrec(w).Sub(wv[hi], wv[lo])
+	if span.Sign() <= 0 {
+		return bc{}, fmt.Errorf("%w: C0 with a degenerate chord direction", ErrNotCovered)
+	}
+	tm := new(big.Float).SetPrec(w).Sub(wv[mid], wv[lo])
+	tm.Quo(tm, span)
+	A := n.fl(t.s[lo][hi])
+	B := new(big.Float).SetPrec(w).Sub(t.m2[hi], t.m2[lo])
+	B.Sub(B, A)
+	C := n.fl(t.m2[lo])
+	sum := n.zero()
+	one := n.f(1)
+	if tm.Sign() > 0 {
+		sum = sum.Add(n.intLinOverQuad(n.f(0), new(big.Float).SetPrec(w).Quo(one, tm), A, B, C, n.f(0), tm))
+	}
+	if tm.Cmp(one) < 0 {
+		om := new(big.Float).SetPrec(w).Sub(one, tm)
+		a0 := new(big.Float).SetPrec(w).Quo(one, om)
+		sum = sum.Add(n.intLinOverQuad(a0, new(big.Float).Neg(a0), A, B, C, tm, one))
+	}
+	return sum.Neg(), nil
+}
+
+func (n bnum) intLinOverQuad(a0, a1, A, B, C, lo, hi *big.Float) bc {
+	w := n.w
+	roots, _, _ := n.quadRootsI0(A, B, C)
+	lin := func(y bc) bc { return n.r(a0).Add(y.Scale(a1)) }
+	logs := func(y bc) bc { return n.log(n.r(hi).Sub(y)).Sub(n.log(n.r(lo).Sub(y))) }
+	switch len(roots) {
+	case 0:
+		d := new(big.Float).SetPrec(w).Sub(hi, lo)
+		d.Mul(d, a0)
+		h2 := new(big.Float).SetPrec(w).Mul(hi, hi)
+		h2.Sub(h2, new(big.Float).SetPrec(w).Mul(lo, lo))
+		h2.Mul(h2, a1)
+		h2.Quo(h2, n.f(2))
+		d.Add(d, h2)
+		return n.r(d.Quo(d, C))
+	case 1:
+		y := roots[0]
+		d := new(big.Float).SetPrec(w).Sub(hi, lo)
+		d.Mul(d, a1)
+		return n.r(d).Add(lin(y).Mul(logs(y))).Quo(n.r(B))
+	}
+	y1, y2 := roots[0], roots[1]
+	c1 := lin(y1).Quo(y1.Sub(y2))
+	c2 := lin(y2).Quo(y2.Sub(y1))
+	return c1.Mul(logs(y1)).Add(c2.Mul(logs(y2))).Quo(n.r(A))
+}
