@@ -5,12 +5,12 @@ import (
 )
 
 // This file holds exact division and the multivariate greatest common divisor that keeps
-// rational functions in lowest terms. The GCD first removes what is cheap (integer content,
-// common monomials, variables present in only one argument), then tries the heuristic GCD of
-// B.W. Char, K.O. Geddes, G.H. Gonnet, J. Symbolic Comput. 7 (1989) 31 (evaluation at a large
-// integer, recursive GCD of the images, ξ-adic reconstruction, verification by exact division),
-// and falls back to the recursive primitive polynomial remainder sequence (D.E. Knuth, TAOCP
-// vol. 2, §4.6.1, Algorithm E), which always succeeds.
+// rational functions in lowest terms. The GCD works on primitive integer polynomials (zpoly):
+// it first removes what is cheap (common monomials, variables present in only one argument),
+// then tries the heuristic GCD of B.W. Char, K.O. Geddes, G.H. Gonnet, J. Symbolic Comput. 7
+// (1989) 31 (evaluation at a large integer, recursive GCD of the images, ξ-adic reconstruction,
+// verification by exact division), and falls back to the recursive primitive polynomial
+// remainder sequence (D.E. Knuth, TAOCP vol. 2, §4.6.1, Algorithm E), which always succeeds.
 
 // DivExact returns p/d and true when d divides p exactly over the rationals; otherwise false.
 func (p Poly) DivExact(d Poly) (Poly, bool) {
@@ -35,31 +35,14 @@ func (p Poly) DivExact(d Poly) (Poly, bool) {
 		}
 		return Poly{terms: out}, true
 	}
-	// Quick rejection on degrees.
-	for _, v := range d.Vars() {
-		if d.Degree(v) > p.Degree(v) {
-			return Poly{}, false
-		}
-	}
-	if d.TotalDegree() > p.TotalDegree() {
+	// p/d = (cp/cd)·(P/D) with P, D primitive; P/D is integral when it exists (Gauss).
+	cp, P := p.PrimitiveZ()
+	cd, D := d.PrimitiveZ()
+	q, ok := toZ(P).divExact(toZ(D))
+	if !ok {
 		return Poly{}, false
 	}
-	lt := d.terms[0]
-	inv := new(big.Rat).Inv(lt.Coef)
-	var q []PolyTerm
-	r := p
-	for !r.IsZero() {
-		t := r.terms[0]
-		m, ok := monoDiv(t.Mono, lt.Mono)
-		if !ok {
-			return Poly{}, false
-		}
-		c := new(big.Rat).Mul(t.Coef, inv)
-		q = append(q, PolyTerm{Mono: m, Coef: c})
-		r = r.Sub(d.MulMono(c, m))
-	}
-	// Quotient terms come out in decreasing order already.
-	return Poly{terms: q}, true
+	return q.toPoly().Scale(new(big.Rat).Quo(cp, cd)), true
 }
 
 // PrimitiveZ writes p = c·q with q having coprime integer coefficients and a positive leading
@@ -89,27 +72,6 @@ func (p Poly) PrimitiveZ() (*big.Rat, Poly) {
 	return c, p.Scale(new(big.Rat).Inv(c))
 }
 
-// monoGCD is the largest monomial dividing every term of p (p nonzero).
-func (p Poly) monoGCD() Mono {
-	if p.IsZero() {
-		return nil
-	}
-	m := append(Mono(nil), p.terms[0].Mono...)
-	for _, t := range p.terms[1:] {
-		out := m[:0]
-		for _, vp := range m {
-			if e := t.Mono.Exp(vp.Var); e > 0 {
-				out = append(out, VarPow{vp.Var, min(e, vp.Exp)})
-			}
-		}
-		m = out
-		if len(m) == 0 {
-			break
-		}
-	}
-	return m
-}
-
 func monoMin(a, b Mono) Mono {
 	var out Mono
 	for _, vp := range a {
@@ -135,122 +97,95 @@ func GCD(p, q Poly) Poly {
 	}
 	_, a := p.PrimitiveZ()
 	_, b := q.PrimitiveZ()
-	return gcdPrim(a, b)
+	return gcdZ(toZ(a), toZ(b)).toPoly()
 }
 
-// gcdPrim computes the GCD of two nonzero primitive integer polynomials.
-func gcdPrim(a, b Poly) Poly {
-	if a.IsConst() || b.IsConst() {
-		return PolyInt(1)
+var zOne = zpoly{{nil, big.NewInt(1)}}
+
+// gcdZ computes the GCD of two nonzero primitive integer polynomials (result primitive, with a
+// positive leading coefficient).
+func gcdZ(a, b zpoly) zpoly {
+	if a.isConst() || b.isConst() {
+		return zOne
 	}
-	if a.Equal(b) {
+	if a.equal(b) {
 		return a
 	}
 	// Common monomial factor.
 	ma, mb := a.monoGCD(), b.monoGCD()
 	m := monoMin(ma, mb)
 	if len(ma) > 0 {
-		a, _ = a.DivExact(PolyMono(ratOne, ma))
+		a = a.divMono(ma)
 	}
 	if len(mb) > 0 {
-		b, _ = b.DivExact(PolyMono(ratOne, mb))
+		b = b.divMono(mb)
 	}
 	g := gcdNoMono(a, b)
 	if len(m) > 0 {
-		g = g.MulMono(ratOne, m)
+		g = g.mulMono(m)
 	}
 	return g
 }
 
-// gcdNoMono is gcdPrim after the monomial content has been removed from both arguments.
-func gcdNoMono(a, b Poly) Poly {
-	if a.IsConst() || b.IsConst() {
-		return PolyInt(1)
+// gcdNoMono is gcdZ after the monomial content has been removed from both arguments.
+func gcdNoMono(a, b zpoly) zpoly {
+	if a.isConst() || b.isConst() {
+		return zOne
 	}
 	// A variable that occurs in only one argument cannot occur in the GCD: the GCD is the GCD of
 	// the other argument with all coefficients in that variable.
-	av, bv := a.Vars(), b.Vars()
-	if v, ok := firstMissing(av, b); ok {
-		return gcdWithCoeffs(b, a, v)
-	}
-	if v, ok := firstMissing(bv, a); ok {
-		return gcdWithCoeffs(a, b, v)
-	}
-	if a.Equal(b) {
-		return a
-	}
-	if h, ok := heuGCD(a, b); ok {
-		_, h = h.PrimitiveZ()
-		return h
-	}
-	_, h := prsGCD(a, b).PrimitiveZ()
-	return h
-}
-
-func firstMissing(vars []string, p Poly) (string, bool) {
-	for _, v := range vars {
-		if !p.Has(v) {
-			return v, true
+	for _, v := range a.vars() {
+		if !b.has(v) {
+			return gcdWithCoeffs(b, a, v)
 		}
 	}
-	return "", false
+	for _, v := range b.vars() {
+		if !a.has(v) {
+			return gcdWithCoeffs(a, b, v)
+		}
+	}
+	if a.equal(b) {
+		return a
+	}
+	if h, _, _, ok := heuGCDZ(a, b); ok {
+		return h.primitive()
+	}
+	return prsGCDZ(a, b).primitive()
 }
 
 // gcdWithCoeffs returns gcd(b, coefficients of a in v), where b is free of v.
-func gcdWithCoeffs(b, a Poly, v string) Poly {
+func gcdWithCoeffs(b, a zpoly, v string) zpoly {
 	g := b
-	for _, c := range a.CoeffsIn(v) {
-		if c.IsZero() {
+	for _, c := range a.coeffsIn(v) {
+		if len(c) == 0 {
 			continue
 		}
-		g = GCD(g, c)
-		if g.IsConst() {
-			return PolyInt(1)
+		g = gcdZ(g, c.primitive())
+		if g.isConst() {
+			return zOne
 		}
 	}
 	return g
-}
-
-// maxNorm is the largest absolute value of an (integer) coefficient.
-func maxNorm(p Poly) *big.Int {
-	m := new(big.Int)
-	for _, t := range p.terms {
-		a := new(big.Int).Abs(t.Coef.Num())
-		if a.Cmp(m) > 0 {
-			m = a
-		}
-	}
-	return m
-}
-
-// evalVarInt substitutes the integer x for v.
-func evalVarInt(p Poly, v string, x *big.Int) Poly {
-	cs := p.CoeffsIn(v)
-	xr := new(big.Rat).SetInt(x)
-	res := cs[len(cs)-1]
-	for e := len(cs) - 2; e >= 0; e-- {
-		res = res.Scale(xr).Add(cs[e])
-	}
-	return res
 }
 
 // interpolate rebuilds a polynomial in v from its image h at v = x by the symmetric ξ-adic
 // expansion of every integer coefficient.
-func interpolate(h Poly, v string, x *big.Int) Poly {
+func interpolate(h zpoly, v string, x *big.Int) zpoly {
 	var ts []PolyTerm
 	half := new(big.Int).Rsh(x, 1)
-	for _, t := range h.terms {
-		c := new(big.Int).Set(t.Coef.Num())
+	r := new(big.Int)
+	for _, t := range h {
+		c := new(big.Int).Set(t.c)
 		e := 0
 		for c.Sign() != 0 {
-			r := new(big.Int).Mod(c, x) // 0 ≤ r < x
+			r.Mod(c, x) // 0 ≤ r < x
 			if r.Cmp(half) > 0 {
 				r.Sub(r, x)
 			}
 			if r.Sign() != 0 {
-				m := t.Mono
+				m := t.m
 				if e > 0 {
-					m = monoMul(t.Mono, Mono{{v, e}})
+					m = monoMul(t.m, Mono{{v, e}})
 				}
 				ts = append(ts, PolyTerm{Mono: m, Coef: new(big.Rat).SetInt(r)})
 			}
@@ -259,41 +194,38 @@ func interpolate(h Poly, v string, x *big.Int) Poly {
 			e++
 		}
 	}
-	return fromTerms(ts)
+	return toZ(fromTerms(ts))
 }
 
 // heuGCDMaxBits bounds the evaluation point of the heuristic GCD; beyond it the PRS is used.
 const heuGCDMaxBits = 1 << 14
 
-// heuGCD returns a GCD of integer polynomials a and b (up to sign and integer content), and
-// whether the heuristic succeeded. Results are always verified by exact division.
+// heuGCD is the heuristic GCD on Poly arguments with integer coefficients (for tests).
 func heuGCD(a, b Poly) (Poly, bool) {
-	h, _, _, ok := heuGCDCof(a, b)
-	return h, ok
+	h, _, _, ok := heuGCDZ(toZ(a), toZ(b))
+	return h.toPoly(), ok
 }
 
-func heuGCDCof(a, b Poly) (h, ca, cb Poly, ok bool) {
-	if a.IsZero() || b.IsZero() {
-		return Poly{}, Poly{}, Poly{}, false
+// prsGCD is the primitive-PRS GCD on Poly arguments with integer coefficients (for tests).
+func prsGCD(a, b Poly) Poly { return prsGCDZ(toZ(a), toZ(b)).toPoly() }
+
+// heuGCDZ returns a GCD h of the integer polynomials a, b with cofactors a/h, b/h, and whether
+// the heuristic succeeded. Results are always verified by exact division.
+func heuGCDZ(a, b zpoly) (h, ca, cb zpoly, ok bool) {
+	if len(a) == 0 || len(b) == 0 {
+		return nil, nil, nil, false
 	}
-	if a.IsConst() && b.IsConst() {
-		x := a.terms[0].Coef.Num()
-		y := b.terms[0].Coef.Num()
-		g := new(big.Int).GCD(nil, nil, new(big.Int).Abs(x), new(big.Int).Abs(y))
-		gr := new(big.Rat).SetInt(g)
-		return PolyConst(gr), a.Scale(new(big.Rat).Inv(gr)), b.Scale(new(big.Rat).Inv(gr)), true
+	if a.isConst() && b.isConst() {
+		g := new(big.Int).GCD(nil, nil, new(big.Int).Abs(a[0].c), new(big.Int).Abs(b[0].c))
+		return zpoly{{nil, g}}, a.quoInt(g), b.quoInt(g), true
 	}
-	vars := unionVars(a.Vars(), b.Vars())
+	vars := unionVars(a.vars(), b.vars())
 	v := vars[len(vars)-1]
 	// Divide out the integer content common to both (not each one's own content, so that the
 	// cofactors of the images stay consistent with the arguments).
-	ga, _ := a.PrimitiveZ()
-	gb, _ := b.PrimitiveZ()
-	gint := new(big.Int).GCD(nil, nil, new(big.Int).Abs(ga.Num()), new(big.Int).Abs(gb.Num()))
-	scale := new(big.Rat).SetInt(gint)
-	inv := new(big.Rat).Inv(scale)
-	pa, pb := a.Scale(inv), b.Scale(inv)
-	fa, fb := maxNorm(pa), maxNorm(pb)
+	gint := new(big.Int).GCD(nil, nil, a.content(), b.content())
+	pa, pb := a.quoInt(gint), b.quoInt(gint)
+	fa, fb := pa.maxNorm(), pb.maxNorm()
 	mn := fa
 	if fb.Cmp(mn) < 0 {
 		mn = fb
@@ -307,8 +239,8 @@ func heuGCDCof(a, b Poly) (h, ca, cb Poly, ok bool) {
 	if s.Cmp(B) < 0 {
 		x = s
 	}
-	la := new(big.Int).Quo(fa, new(big.Int).Abs(pa.LeadCoef().Num()))
-	lb := new(big.Int).Quo(fb, new(big.Int).Abs(pb.LeadCoef().Num()))
+	la := new(big.Int).Quo(fa, new(big.Int).Abs(pa[0].c))
+	lb := new(big.Int).Quo(fb, new(big.Int).Abs(pb[0].c))
 	if lb.Cmp(la) < 0 {
 		la = lb
 	}
@@ -322,24 +254,25 @@ func heuGCDCof(a, b Poly) (h, ca, cb Poly, ok bool) {
 		if x.BitLen() > heuGCDMaxBits {
 			break
 		}
-		ea, eb := evalVarInt(pa, v, x), evalVarInt(pb, v, x)
-		if !ea.IsZero() && !eb.IsZero() {
-			hh, cfa, cfb, ok := heuGCDCof(ea, eb)
+		ea, eb := pa.evalInt(v, x), pb.evalInt(v, x)
+		if len(ea) > 0 && len(eb) > 0 {
+			hh, cfa, cfb, ok := heuGCDZ(ea, eb)
 			if ok {
-				cands := []Poly{interpolate(hh, v, x)}
-				if Ca := interpolate(cfa, v, x); !Ca.IsZero() {
-					if hq, ok := pa.DivExact(Ca); ok {
-						cands = append(cands, hq)
+				if c, ok := tryCandidate(interpolate(hh, v, x), pa, pb); ok {
+					return c.h.scale(gint), c.ca, c.cb, true
+				}
+				if Ca := interpolate(cfa, v, x); len(Ca) > 0 {
+					if hq, ok := pa.divExact(Ca.primitive()); ok {
+						if c, ok := tryCandidate(hq, pa, pb); ok {
+							return c.h.scale(gint), c.ca, c.cb, true
+						}
 					}
 				}
-				if Cb := interpolate(cfb, v, x); !Cb.IsZero() {
-					if hq, ok := pb.DivExact(Cb); ok {
-						cands = append(cands, hq)
-					}
-				}
-				for _, H := range cands {
-					if c, ok := tryCandidate(H, pa, pb); ok {
-						return c.h.Scale(scale), c.ca, c.cb, true
+				if Cb := interpolate(cfb, v, x); len(Cb) > 0 {
+					if hq, ok := pb.divExact(Cb.primitive()); ok {
+						if c, ok := tryCandidate(hq, pa, pb); ok {
+							return c.h.scale(gint), c.ca, c.cb, true
+						}
 					}
 				}
 			}
@@ -350,21 +283,21 @@ func heuGCDCof(a, b Poly) (h, ca, cb Poly, ok bool) {
 		x.Mul(x, q)
 		x.Quo(x, big.NewInt(27011))
 	}
-	return Poly{}, Poly{}, Poly{}, false
+	return nil, nil, nil, false
 }
 
-type gcdCand struct{ h, ca, cb Poly }
+type gcdCand struct{ h, ca, cb zpoly }
 
-func tryCandidate(H, a, b Poly) (gcdCand, bool) {
-	if H.IsZero() {
+func tryCandidate(H, a, b zpoly) (gcdCand, bool) {
+	if len(H) == 0 {
 		return gcdCand{}, false
 	}
-	_, H = H.PrimitiveZ()
-	ca, ok := a.DivExact(H)
+	H = H.primitive()
+	ca, ok := a.divExact(H)
 	if !ok {
 		return gcdCand{}, false
 	}
-	cb, ok := b.DivExact(H)
+	cb, ok := b.divExact(H)
 	if !ok {
 		return gcdCand{}, false
 	}
@@ -391,82 +324,77 @@ func unionVars(a, b []string) []string {
 	return out
 }
 
-// prsGCD is the recursive primitive-PRS GCD (always succeeds).
-func prsGCD(a, b Poly) Poly {
-	vars := unionVars(a.Vars(), b.Vars())
+// prsGCDZ is the recursive primitive-PRS GCD (always succeeds).
+func prsGCDZ(a, b zpoly) zpoly {
+	vars := unionVars(a.vars(), b.vars())
 	if len(vars) == 0 {
-		return PolyInt(1)
+		return zOne
 	}
 	x := vars[0]
-	if a.Degree(x) < b.Degree(x) {
+	if a.degree(x) < b.degree(x) {
 		a, b = b, a
 	}
-	if b.Degree(x) == 0 {
-		return gcdWithCoeffs(b, a, x)
+	if b.degree(x) == 0 {
+		return gcdWithCoeffs(b.primitive(), a, x)
 	}
 	ca, pa := contentIn(a, x)
 	cb, pb := contentIn(b, x)
-	c := GCD(ca, cb)
+	c := gcdZ(ca, cb)
 	for {
 		r := pseudoRem(pa, pb, x)
-		if r.IsZero() {
+		if len(r) == 0 {
 			break
 		}
-		if r.Degree(x) == 0 {
-			pb = PolyInt(1)
+		if r.degree(x) == 0 {
+			pb = zOne
 			break
 		}
 		_, pr := contentIn(r, x)
 		pa, pb = pb, pr
 	}
-	return c.Mul(pb)
+	return c.mul(pb)
 }
 
-// contentIn writes p = c·q with c the GCD of the coefficients of p in x (a polynomial free of x)
-// and q primitive in x.
-func contentIn(p Poly, x string) (Poly, Poly) {
-	cs := p.CoeffsIn(x)
-	g := Poly{}
-	for _, c := range cs {
-		if c.IsZero() {
+// contentIn writes p = c·q with c the GCD of the coefficients of p in x (a primitive polynomial
+// free of x) and q primitive in x.
+func contentIn(p zpoly, x string) (zpoly, zpoly) {
+	var g zpoly
+	for _, c := range p.coeffsIn(x) {
+		if len(c) == 0 {
 			continue
 		}
-		if g.IsZero() {
-			_, g = c.PrimitiveZ()
+		if g == nil {
+			g = c.primitive()
 		} else {
-			g = GCD(g, c)
+			g = gcdZ(g, c.primitive())
 		}
-		if g.IsOne() {
+		if g.isOne() {
 			break
 		}
 	}
-	if g.IsOne() {
-		_, q := p.PrimitiveZ()
-		return g, q
+	if g.isOne() {
+		return g, p.primitive()
 	}
-	q, ok := p.DivExact(g)
+	q, ok := p.primitive().divExact(g)
 	if !ok {
 		panic("expr: content does not divide polynomial")
 	}
-	_, q = q.PrimitiveZ()
-	return g, q
+	return g, q.primitive()
 }
 
 // pseudoRem returns a multiple of the pseudo-remainder of a by b in x.
-func pseudoRem(a, b Poly, x string) Poly {
-	db := b.Degree(x)
-	bc := b.CoeffsIn(x)
-	lcB := bc[db]
+func pseudoRem(a, b zpoly, x string) zpoly {
+	db := b.degree(x)
+	lcB := b.coeffsIn(x)[db]
 	r := a
-	for !r.IsZero() && r.Degree(x) >= db {
-		dr := r.Degree(x)
-		lcR := r.CoeffsIn(x)[dr]
-		shift := b.MulMono(ratOne, Mono{{x, dr - db}})
-		if dr == db {
-			shift = b
+	for len(r) > 0 && r.degree(x) >= db {
+		dr := r.degree(x)
+		lcR := r.coeffsIn(x)[dr]
+		shift := b
+		if dr > db {
+			shift = b.mulMono(Mono{{x, dr - db}})
 		}
-		r = r.Mul(lcB).Sub(shift.Mul(lcR))
-		_, r = r.PrimitiveZ()
+		r = zAdd(r.mul(lcB), shift.mul(lcR).scale(big.NewInt(-1))).primitive()
 	}
 	return r
 }

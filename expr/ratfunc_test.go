@@ -203,3 +203,24 @@ func TestRatFuncDerivSubst(t *testing.T) {
 		t.Error("substitution making the denominator zero accepted")
 	}
 }
+
+// TestMonoCmpProd checks the allocation-free comparison against building the product.
+func TestMonoCmpProd(t *testing.T) {
+	r := rand.New(rand.NewPCG(9, 9))
+	vars := []string{"a", "b", "c", "d"}
+	rm := func() Mono {
+		var m Mono
+		for _, v := range vars {
+			if e := r.IntN(3); e > 0 {
+				m = append(m, VarPow{v, e})
+			}
+		}
+		return m
+	}
+	for range 5000 {
+		a, b, m := rm(), rm(), rm()
+		if got, want := monoCmpProd(a, b, m, m.Degree()), monoCmp(a, monoMul(b, m)); got != want {
+			t.Fatalf("monoCmpProd(%v, %v, %v) = %d, want %d", a, b, m, got, want)
+		}
+	}
+}
