@@ -1,6 +1,7 @@
 package expr
 
 import (
+	"math"
 	"math/big"
 	"testing"
 )
@@ -71,5 +72,31 @@ func TestSeriesArithmetic(t *testing.T) {
 	one, _ := s.Mul(inv)
 	if got := one.String(); got != "1 + O(eps^3)" {
 		t.Errorf("s/s = %s", got)
+	}
+}
+
+// TestExpGammaNumeric compares the truncated series of e^{γε}Γ(n+ε) with math.Gamma at small
+// ε: the difference must be of the size of the first omitted term.
+func TestExpGammaNumeric(t *testing.T) {
+	const gammaE = 0.57721566490153286061 // Euler's constant (A&S 6.1.3)
+	for _, n := range []int{-2, -1, 0, 1, 2, 3} {
+		s, err := ExpGamma(n, big.NewRat(1, 1), 5)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, eps := range []float64{1e-2, -3e-3} {
+			var sum complex128
+			for k := s.Lo; k < s.Order; k++ {
+				c, err := s.Coef(k).Eval(nil)
+				if err != nil {
+					t.Fatal(err)
+				}
+				sum += c * complex(math.Pow(eps, float64(k)), 0)
+			}
+			want := math.Exp(gammaE*eps) * math.Gamma(float64(n)+eps)
+			if d := math.Abs(real(sum) - want); d > 50*math.Pow(math.Abs(eps), 5)*math.Max(1, math.Abs(want)) {
+				t.Errorf("n=%d eps=%g: series %.15g, Gamma %.15g (diff %.2g)", n, eps, real(sum), want, d)
+			}
+		}
 	}
 }
