@@ -131,7 +131,7 @@ func logIntegral(p2, a, b float64) complex128 {
 		u := (hi - lo) / hi
 		return complex(math.Log(hi)-r*math.Log1p(-u)/u-1, 0)
 	}
-	B := b - a - p2
+	B := sum3(b, -a, -p2)
 	C := a
 	lam := kallen(p2, a, b)
 	if lam < 0 {
@@ -237,7 +237,7 @@ func b0Deriv(p2, a, b float64) (complex128, error) {
 		}
 		return gTilde(complex(x0, 0), 0) / complex(d, 0), nil
 	}
-	B := b - a - p2
+	B := sum3(b, -a, -p2)
 	C := a
 	lam := kallen(p2, a, b)
 	if lam < 0 && 4*p2 <= C/(bigRoot*bigRoot) || lam >= 0 && C > 0 && bothBig(p2, B, C, lam) {

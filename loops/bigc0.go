@@ -42,6 +42,7 @@ func (n bnum) toFloatTri(t *btri) tri {
 			u.s[i][j], _ = t.s[i][j].Float64()
 		}
 	}
+	u.fillY()
 	return u
 }
 

@@ -48,6 +48,7 @@ func (n bnum) toFloatBox(b *bbox) box {
 			u.s[i][j], _ = b.s[i][j].Float64()
 		}
 	}
+	u.fillY()
 	return u
 }
 

@@ -9,9 +9,14 @@ import (
 // tri describes a triangle: squared internal masses m2[i] and invariants s[i][j] = (k_i − k_j)²
 // between lines i and j, with k_0 = 0, k_1 = p1, k_2 = p2 (Denner's order: s[0][1] = p1²,
 // s[1][2] = (p2−p1)², s[0][2] = p2²).
+//
+// The modified Cayley matrix Y_ij = (m_i² + m_j² − s_ij)/2 is stored as well: a triangle built from
+// a Cayley matrix (a rescaled face of a box) keeps its exact Y, whose small entries (on-shell legs
+// next to small masses) carry the information that the rounded invariants would lose.
 type tri struct {
 	m2 [3]float64
 	s  [3][3]float64
+	yy [3][3]float64
 }
 
 func newTri(s01, s12, s02, m02, m12, m22 float64) tri {
@@ -20,16 +25,37 @@ func newTri(s01, s12, s02, m02, m12, m22 float64) tri {
 	t.s[0][1], t.s[1][0] = s01, s01
 	t.s[1][2], t.s[2][1] = s12, s12
 	t.s[0][2], t.s[2][0] = s02, s02
+	t.fillY()
+	return t
+}
+
+// fillY computes Y from the masses and invariants.
+func (t *tri) fillY() {
+	for i := 0; i < 3; i++ {
+		t.yy[i][i] = t.m2[i]
+		for j := i + 1; j < 3; j++ {
+			v := 0.5 * sum3(t.m2[i], t.m2[j], -t.s[i][j])
+			t.yy[i][j], t.yy[j][i] = v, v
+		}
+	}
+}
+
+// triFromY builds a triangle from its Cayley matrix; the invariants are derived from it.
+func triFromY(y [3][3]float64) tri {
+	var t tri
+	t.yy = y
+	for i := 0; i < 3; i++ {
+		t.m2[i] = y[i][i]
+		for j := i + 1; j < 3; j++ {
+			v := sum3(y[i][i], y[j][j], -2*y[i][j])
+			t.s[i][j], t.s[j][i] = v, v
+		}
+	}
 	return t
 }
 
 // y returns the modified Cayley matrix element Y_ij = (m_i² + m_j² − s_ij)/2.
-func (t *tri) y(i, j int) float64 {
-	if i == j {
-		return t.m2[i]
-	}
-	return 0.5 * (t.m2[i] + t.m2[j] - t.s[i][j])
-}
+func (t *tri) y(i, j int) float64 { return t.yy[i][j] }
 
 // edge returns the two vertices (lines) j < k of the edge opposite vertex i.
 func edge(i int) (int, int) {
@@ -47,7 +73,7 @@ func edge(i int) (int, int) {
 func (t *tri) quad(i int) (A, B, C float64) {
 	j, k := edge(i)
 	A = t.s[j][k]
-	B = t.m2[k] - t.m2[j] - A
+	B = 2 * (t.yy[j][k] - t.yy[j][j]) // = m_k² − m_j² − s_jk
 	C = t.m2[j]
 	return
 }
@@ -125,15 +151,15 @@ func c0Projective(t *tri) (complex128, float64, error) {
 	// Gram matrix of p1 = k1 − k0, p2 = k2 − k0 and the vector f_j = (m_j² − m0² − s_0j)/2:
 	// det Y = m0² det G − fᵀ adj(G) f, so F* − m0² = −fᵀ adj(G) f / det G without cancellation.
 	g11, g22 := s01, s02
-	g12 := 0.5 * (s01 + s02 - s12)
+	g12 := 0.5 * sum3(s01, s02, -s12)
 	detG := -lam / 4
-	f1 := 0.5 * (t.m2[1] - t.m2[0] - s01)
-	f2 := 0.5 * (t.m2[2] - t.m2[0] - s02)
+	f1 := t.yy[0][1] - t.yy[0][0] // (m1² − m0² − s01)/2
+	f2 := t.yy[0][2] - t.yy[0][0]
 	phiStar := -(f1*f1*g22 - 2*f1*f2*g12 + f2*f2*g11) / detG
 	fStar := t.m2[0] + phiStar
 	// P = (a, b, −a−b) with a² s02 + a b (s02 + s12 − s01) + b² s12 = 0.
 	var P [3]complex128
-	qb := s02 + s12 - s01
+	qb := sum3(s02, s12, -s01)
 	if math.Abs(s02) >= math.Abs(s12) {
 		a := quadRoot(s02, qb, s12, lam)
 		P = [3]complex128{a, 1, -a - 1}
@@ -197,42 +223,55 @@ func lnMinusI0(x float64) complex128 {
 }
 
 // edgeIntegral returns ∫₀¹ [ln(F(t) − i0) − ln(F* − i0)]/(t − t0) dt for F(t) = A t² + B t + C, and
-// a magnitude estimate. F* = m0sq + phiStar is passed in both forms, so that F(t0) − F* is formed
-// without cancellation when F is nearly constant.
+// a magnitude estimate. With ln(F(t) − i0) = lnLead + Σ_k ln(t − y_k) on the segment it equals
+// Σ_k R(t0, y_k) + [lnLead + Σ_k ln(t0 − y_k) − ln F*] ∫₀¹ dt/(t − t0), and the bracket is a multiple of
+// 2πi: t0 lies on the line B = 0 through P and x*, along which F ≡ F* (F(x* + τP) = F(x*) because
+// B(x*) = F(P) = 0), so F(t0) = F*. The same identity gives t0 − y_k = F*/(A (t0 − y_other)) without
+// cancellation when t0 is close to a root (F* small: near-infrared or near-threshold kinematics).
+// phiStar = F* − m0sq is accepted for symmetry with callers and not needed here.
 func edgeIntegral(A, B, C float64, t0 complex128, fStar float64, lnFStar complex128, m0sq, phiStar float64) (complex128, float64) {
 	roots, lnLead, ok := quadRootsI0(A, B, C)
-	var sum complex128
-	mag := 0.0
-	rough := lnLead
-	for _, y := range roots {
-		if t0 == y {
-			// cannot happen for F* ≠ 0 (B and F vanish together only on the degenerate conic)
-			continue
-		}
-		r, m := rfun(t0, y)
-		sum += r
-		mag += m
-		rough += clog(t0 - y)
-	}
 	if !ok {
 		return cmplx.NaN(), math.Inf(1)
 	}
-	// the constant ln F(t0) − ln F*, with the branch implied by the root decomposition
-	rough -= lnFStar
-	ft0 := (complex(A, 0)*t0+complex(B, 0))*t0 + complex(C, 0)
-	diff := (complex(A, 0)*t0+complex(B, 0))*t0 + complex((C-m0sq)-phiStar, 0)
-	var acc complex128
-	if cmplx.Abs(diff) < 0.5*math.Abs(fStar) {
-		acc = log1p(diff / complex(fStar, 0))
-	} else {
-		acc = clog(ft0) - lnFStar
+	var cs [2]complex128
+	for k, y := range roots {
+		cs[k] = t0 - y
 	}
-	k := math.Round(imag(rough-acc) / (2 * math.Pi))
-	acc += complex(0, 2*math.Pi*k)
-	if acc != 0 {
-		l := lt0(t0)
-		sum += acc * l
-		mag += cmplx.Abs(acc) * cmplx.Abs(l)
+	for k, y := range roots {
+		near := cmplx.Abs(cs[k]) < 1e-6*(1+cmplx.Abs(y))
+		if !near || fStar == 0 {
+			continue
+		}
+		var re complex128
+		if len(roots) == 2 {
+			other := cs[1-k]
+			if cmplx.Abs(other) < 1e-6*(1+cmplx.Abs(roots[1-k])) {
+				continue // both roots near t0: keep the direct differences
+			}
+			re = complex(fStar, 0) / (complex(A, 0) * other)
+		} else {
+			re = complex(fStar/B, 0)
+		}
+		if imag(t0) == 0 {
+			// keep the infinitesimal imaginary part exactly as the direct difference gives it
+			re = complex(real(re), imag(cs[k]))
+		}
+		cs[k] = re
+	}
+	var sum complex128
+	mag := 0.0
+	rough := lnLead - lnFStar
+	for k, y := range roots {
+		r, m := rfunC(t0, y, cs[k])
+		sum += r
+		mag += m
+		rough += clog(cs[k])
+	}
+	if k := math.Round(imag(rough) / (2 * math.Pi)); k != 0 {
+		l := complex(0, 2*math.Pi*k) * lt0(t0)
+		sum += l
+		mag += cmplx.Abs(l)
 	}
 	return sum, mag
 }

@@ -82,6 +82,7 @@ func permTri(t tri, perm [3]int) tri {
 			u.s[i][j] = t.s[perm[i]][perm[j]]
 		}
 	}
+	u.fillY()
 	return u
 }
 

@@ -162,7 +162,7 @@ func (t *tri) quadrature(kappa float64) float64 {
 // integral reduces to one dimension (chord).
 func c0DegenerateGram(t *tri) (complex128, float64, error) {
 	s01, s12, s02 := t.s[0][1], t.s[1][2], t.s[0][2]
-	q := s02 + s12 - s01
+	q := sum3(s02, s12, -s01)
 	var P [3]float64
 	if math.Abs(s02) >= math.Abs(s12) {
 		a := -q / (2 * s02)
@@ -215,7 +215,7 @@ func c0Chord(t *tri, P [3]float64) (complex128, float64, error) {
 	tm := (w[mid] - w[lo]) / (w[hi] - w[lo])
 	// F on the edge lo → hi: A τ² + B τ + C
 	A := t.s[lo][hi]
-	B := t.m2[hi] - t.m2[lo] - A
+	B := sum3(t.m2[hi], -t.m2[lo], -A)
 	C := t.m2[lo]
 	var sum complex128
 	if tm > 0 {

@@ -12,6 +12,7 @@ import (
 type box struct {
 	m2 [4]float64
 	s  [4][4]float64
+	yy [4][4]float64 // Y_ij = (m_i² + m_j² − s_ij)/2
 }
 
 func newBox(s01, s12, s23, s03, s02, s13, m02, m12, m22, m32 float64) box {
@@ -24,15 +25,21 @@ func newBox(s01, s12, s23, s03, s02, s13, m02, m12, m22, m32 float64) box {
 	set(0, 3, s03)
 	set(0, 2, s02)
 	set(1, 3, s13)
+	b.fillY()
 	return b
 }
 
-func (b *box) y(i, j int) float64 {
-	if i == j {
-		return b.m2[i]
+func (b *box) fillY() {
+	for i := 0; i < 4; i++ {
+		b.yy[i][i] = b.m2[i]
+		for j := i + 1; j < 4; j++ {
+			v := 0.5 * sum3(b.m2[i], b.m2[j], -b.s[i][j])
+			b.yy[i][j], b.yy[j][i] = v, v
+		}
 	}
-	return 0.5 * (b.m2[i] + b.m2[j] - b.s[i][j])
 }
+
+func (b *box) y(i, j int) float64 { return b.yy[i][j] }
 
 func (b *box) scale() float64 {
 	s := 0.0
@@ -184,20 +191,16 @@ func d0FromPoint(bx *box, P, l [4]float64) (complex128, float64, error) {
 				n++
 			}
 		}
-		var t tri
+		// rescaled Cayley matrix Y′_pq = Y_pq/(l_p l_q) of the face
+		var yf [3][3]float64
 		prod := 1.0
 		for p := 0; p < 3; p++ {
-			lj := l[v[p]]
-			prod *= lj
-			t.m2[p] = bx.m2[v[p]] / (lj * lj)
-		}
-		for p := 0; p < 3; p++ {
-			for q := p + 1; q < 3; q++ {
-				yq := bx.y(v[p], v[q]) / (l[v[p]] * l[v[q]])
-				sv := t.m2[p] + t.m2[q] - 2*yq
-				t.s[p][q], t.s[q][p] = sv, sv
+			prod *= l[v[p]]
+			for q := 0; q < 3; q++ {
+				yf[p][q] = bx.y(v[p], v[q]) / (l[v[p]] * l[v[q]])
 			}
 		}
+		t := triFromY(yf)
 		if _, div, _ := c0Divergent(&t, 1); div {
 			return 0, 0, fmt.Errorf("%w: D0 projection onto an infrared-singular face", ErrNotCovered)
 		}

@@ -113,6 +113,7 @@ func permBox(b box, perm [4]int) box {
 			u.s[i][j] = b.s[perm[i]][perm[j]]
 		}
 	}
+	u.fillY()
 	return u
 }
 

@@ -26,8 +26,11 @@ import (
 //
 // rfun also returns the sum of the magnitudes of the parts it added, for the caller's estimate
 // of cancellations.
-func rfun(t0, y complex128) (complex128, float64) {
-	c := t0 - y
+func rfun(t0, y complex128) (complex128, float64) { return rfunC(t0, y, t0-y) }
+
+// rfunC is rfun with c = t0 − y supplied by the caller (computed without cancellation when t0 is
+// close to the root y; see edgeIntegral).
+func rfunC(t0, y, c complex128) (complex128, float64) {
 	ac := cmplx.Abs(c)
 	if math.Max(cmplx.Abs(t0), cmplx.Abs(1-t0)) <= 0.3*ac {
 		return rfunFarY(t0, y, c)

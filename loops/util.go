@@ -16,3 +16,19 @@ func log1p(w complex128) complex128 {
 	}
 	return complex(0.5*math.Log1p(x*(2+x)+y*y), math.Atan2(y, 1+x))
 }
+
+// sum3 returns a + b + c with the rounding errors of the two additions compensated (Knuth's
+// TwoSum), so that combinations such as m_k² − m_j² − s_jk keep their digits whichever pair of
+// terms cancels (an on-shell leg next to a tiny mass, equal masses, …).
+func sum3(a, b, c float64) float64 {
+	s1, e1 := twoSum(a, b)
+	s2, e2 := twoSum(s1, c)
+	return s2 + (e1 + e2)
+}
+
+func twoSum(a, b float64) (s, e float64) {
+	s = a + b
+	bb := s - a
+	e = (a - (s - bb)) + (b - bb)
+	return s, e
+}
