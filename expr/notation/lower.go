@@ -875,7 +875,12 @@ func (l *lowerer) builtinCallErr(r *NameRef, name string, n int) (value, error) 
 		if err != nil {
 			return value{}, err
 		}
-		e, err := expr.Apply(name, i0, v)
+		var e expr.Expr
+		if name == "log" {
+			e, err = expr.LogSplit(v, i0, l.p.Positive)
+		} else {
+			e, err = expr.Apply(name, i0, v)
+		}
 		if err != nil {
 			return value{}, errorf(r.Pos, "%v", err)
 		}

@@ -174,6 +174,16 @@ func (p *Program) Leg(name string) (*Leg, bool) {
 	return nil, false
 }
 
+// Positive reports whether a symbol is known to be positive: heavy and light masses and the
+// MS-bar scale mu.
+func (p *Program) Positive(name string) bool {
+	if name == "mu" {
+		return true
+	}
+	d, ok := p.Decls[name]
+	return ok && (d.Kind == KindMass || d.Kind == KindLight)
+}
+
 // NamesOf lists declared names of a kind in declaration order.
 func (p *Program) NamesOf(k Kind) []string {
 	var out []string
