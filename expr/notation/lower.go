@@ -804,7 +804,7 @@ func argName(a *Expr) (string, lexer.Position, bool) {
 
 // integralArity gives the argument groups of the scalar-integral calls (invariants; masses).
 var integralArity = map[string][]int{
-	"A0": {1}, "B0": {1, 2}, "dB0dp2": {1, 2}, "C0": {3, 3}, "D0": {6, 4},
+	"A0": {1}, "B0": {1, 2}, "B0prime": {1, 2}, "C0": {3, 3}, "D0": {6, 4},
 }
 
 var functionArity = map[string]int{
@@ -1132,7 +1132,7 @@ func (l *lowerer) spinor(fn, leg string, pos lexer.Position) (value, error) {
 	return l.nc(expr.NC{Op: op, Args: []string{leg}}), nil
 }
 
-// integralCall lowers A0(m), B0(p2; m0, m1), dB0dp2(p2; m0, m1), C0(s1, s2, s3; m0, m1, m2) and
+// integralCall lowers A0(m), B0(p2; m0, m1), B0prime(p2; m0, m1), C0(s1, s2, s3; m0, m1, m2) and
 // D0(s01, s12, s23, s30, s02, s13; m0, m1, m2, m3): invariants first, then masses (not squared).
 func (l *lowerer) integralCall(r *NameRef, want []int) (value, error) {
 	groups := r.Call.Groups

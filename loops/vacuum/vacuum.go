@@ -16,11 +16,12 @@ import (
 	"strings"
 
 	"loopmatch/expr"
+	"loopmatch/loops"
 )
 
 // TadName is the function name of the one-loop tadpole master, Tad(M²) with the mass squared as
-// its argument.
-const TadName = "Tad"
+// its argument (loops.TadName).
+const TadName = loops.TadName
 
 // Tad returns the master atom Tad(m2).
 func Tad(m2 expr.RatFunc) expr.Expr {
