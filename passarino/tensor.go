@@ -1,0 +1,283 @@
+package passarino
+
+import (
+	"fmt"
+	"math/big"
+
+	"loopmatch/expr"
+	"loopmatch/loops/vacuum"
+)
+
+// This file reduces one-loop vacuum tensor integrals: every occurrence of the loop momentum k in
+// the numerator (k·X, k[mu], slash(k) in a chain, k in a Levi-Civita slot) becomes k^{i_s} with a
+// fresh index i_s, and
+//
+//	∫ k^{i_1} … k^{i_2n} f(k²) = (k²)^n Σ_{pairings} g^{i_a i_b} … / [d(d+2)…(d+2n−2)] ∫ f(k²),
+//
+// odd ranks vanish (symmetric integration). The contractions of the fresh indices with the rest
+// of the term are done by expr's canonical form (g(i, j) renames, p[i] q[i] = p.q, p[i] in a
+// chain becomes slash(p)); gamma(i) … gamma(i) pairs inside chains are left for the Dirac algebra.
+
+// freshIndices returns n index names that do not occur in the term.
+func freshIndices(t expr.Term, n int) []string {
+	used := map[string]bool{}
+	for _, a := range t.Atoms {
+		switch x := a.A.(type) {
+		case expr.Vec:
+			used[x.Mu] = true
+		case expr.Metric:
+			used[x.Mu], used[x.Nu] = true, true
+		case expr.Levi:
+			for _, s := range x.S {
+				used[s.Name] = true
+			}
+		case expr.Chain:
+			for _, e := range x.Elems {
+				for _, arg := range e.Args {
+					used[arg] = true
+				}
+			}
+		}
+	}
+	var out []string
+	for i := 1; len(out) < n; i++ {
+		name := fmt.Sprintf("ix%d", i)
+		if !used[name] {
+			out = append(out, name)
+		}
+	}
+	return out
+}
+
+// pairings calls f for every perfect matching of the slots 0 … 2n−1.
+func pairings(slots []int, f func(pairs [][2]int)) {
+	var rec func(rest []int, acc [][2]int)
+	rec = func(rest []int, acc [][2]int) {
+		if len(rest) == 0 {
+			f(acc)
+			return
+		}
+		a := rest[0]
+		for i := 1; i < len(rest); i++ {
+			b := rest[i]
+			next := make([]int, 0, len(rest)-2)
+			next = append(next, rest[1:i]...)
+			next = append(next, rest[i+1:]...)
+			rec(next, append(acc, [2]int{a, b}))
+		}
+	}
+	rec(slots, nil)
+}
+
+// maxRank bounds the tensor rank of a vacuum integral ((2n−1)!! pairings).
+const maxRank = 12
+
+// ReduceVacuum reduces every one-loop term of e, whose propagators all have the form k² − M²,
+// to Tad masters exact in d, times i/(16π²). Terms without loops pass through unchanged.
+func ReduceVacuum(e expr.Expr) (expr.Expr, vacuum.Info, error) {
+	var info vacuum.Info
+	var out []expr.Expr
+	measure := expr.FromAtom(expr.I, 1).MustMul(expr.FromAtom(expr.Pi, -2)).Scale(expr.RFRat(big.NewRat(1, 16)))
+	for _, t := range e.Terms() {
+		if len(t.Loops) == 0 {
+			out = append(out, expr.FromTerm(t))
+			continue
+		}
+		if len(t.Loops) > 1 {
+			return expr.Expr{}, info, fmt.Errorf("ReduceVacuum: %d-loop term; two-loop reduction is not available here", len(t.Loops))
+		}
+		k := t.Loops[0]
+		r, ti, err := reduceVacuumTerm(t, k)
+		if err != nil {
+			return expr.Expr{}, info, err
+		}
+		info.Merge(ti)
+		out = append(out, r.MustMul(measure))
+	}
+	return expr.Sum(out...), info, nil
+}
+
+func reduceVacuumTerm(t expr.Term, k string) (expr.Expr, vacuum.Info, error) {
+	var info vacuum.Info
+	// Count the slots of k, and build the term with k replaced by fresh indices.
+	rank := 0
+	ksq := 0
+	var lines []vacuum.Line
+	for _, a := range t.Atoms {
+		switch x := a.A.(type) {
+		case expr.Prop:
+			if x.K.Coef(k).Sign() == 0 {
+				continue
+			}
+			if !x.K.Equal(expr.MomOf(k)) {
+				return expr.Expr{}, info, fmt.Errorf("propagator %s still depends on external momenta; expand it first", x.Key())
+			}
+			lines = append(lines, vacuum.Line{M2: x.M2, Pow: -a.Pow})
+		case expr.Dot:
+			switch {
+			case x.A == k && x.B == k:
+				ksq += a.Pow
+			case x.A == k || x.B == k:
+				if a.Pow < 0 {
+					return expr.Expr{}, info, fmt.Errorf("%s in a denominator", x.Key())
+				}
+				rank += a.Pow
+			}
+		case expr.Vec:
+			if x.P == k {
+				rank += a.Pow
+			}
+		case expr.Levi:
+			for _, s := range x.S {
+				if !s.Index && s.Name == k {
+					rank++
+				}
+			}
+		case expr.Chain:
+			for _, el := range x.Elems {
+				if el.Op == expr.NCSlash && el.Args[0] == k {
+					rank++
+				}
+			}
+		}
+	}
+	for _, el := range t.NC {
+		if el.Op == expr.NCSlash && el.Args[0] == k {
+			rank++
+		}
+	}
+	if rank%2 == 1 {
+		return expr.Zero(), info, nil
+	}
+	if rank > maxRank {
+		return expr.Expr{}, info, fmt.Errorf("tensor rank %d exceeds the limit %d", rank, maxRank)
+	}
+	idx := freshIndices(t, rank)
+	next := 0
+	take := func() string { s := idx[next]; next++; return s }
+	// slotIdx[s] is the index carried by slot s; the replaced term has k^{slotIdx} removed.
+	var slotIdx []string
+	nt := expr.Term{Coef: t.Coef, NC: t.NC}
+	for _, a := range t.Atoms {
+		switch x := a.A.(type) {
+		case expr.Prop:
+			if x.K.Coef(k).Sign() != 0 {
+				continue
+			}
+		case expr.Dot:
+			if x.A == k && x.B == k {
+				continue
+			}
+			if x.A == k || x.B == k {
+				other := x.B
+				if x.B == k {
+					other = x.A
+				}
+				for range a.Pow {
+					i := take()
+					slotIdx = append(slotIdx, i)
+					nt.Atoms = append(nt.Atoms, expr.AtomPow{A: expr.Vec{P: other, Mu: i}, Pow: 1})
+				}
+				continue
+			}
+		case expr.Vec:
+			if x.P == k {
+				for range a.Pow {
+					slotIdx = append(slotIdx, x.Mu)
+				}
+				continue
+			}
+		case expr.Levi:
+			s := x.S
+			changed := false
+			for i := range s {
+				if !s[i].Index && s[i].Name == k {
+					j := take()
+					slotIdx = append(slotIdx, j)
+					s[i] = expr.Slot{Name: j, Index: true}
+					changed = true
+				}
+			}
+			if changed {
+				l, sign := expr.NewLevi(s)
+				if sign == 0 {
+					return expr.Zero(), info, nil
+				}
+				nt.Coef = nt.Coef.Scale(big.NewRat(int64(sign), 1))
+				nt.Atoms = append(nt.Atoms, expr.AtomPow{A: l, Pow: a.Pow})
+				continue
+			}
+		case expr.Chain:
+			elems := append([]expr.NC{}, x.Elems...)
+			changed := false
+			for i, el := range elems {
+				if el.Op == expr.NCSlash && el.Args[0] == k {
+					j := take()
+					slotIdx = append(slotIdx, j)
+					elems[i] = expr.NC{Op: expr.NCGamma, Args: []string{j}}
+					changed = true
+				}
+			}
+			if changed {
+				nt.Atoms = append(nt.Atoms, expr.AtomPow{A: expr.NewChain(elems), Pow: a.Pow})
+				continue
+			}
+		}
+		nt.Atoms = append(nt.Atoms, a)
+	}
+	if len(nt.NC) > 0 {
+		elems := append([]expr.NC{}, nt.NC...)
+		for i, el := range elems {
+			if el.Op == expr.NCSlash && el.Args[0] == k {
+				j := take()
+				slotIdx = append(slotIdx, j)
+				elems[i] = expr.NC{Op: expr.NCGamma, Args: []string{j}}
+			}
+		}
+		nt.NC = elems
+	}
+	base := expr.FromTerm(nt)
+	// Symmetric tensor: Σ over pairings of metrics.
+	sym := expr.Zero()
+	slots := make([]int, len(slotIdx))
+	for i := range slots {
+		slots[i] = i
+	}
+	var perr error
+	pairings(slots, func(pairs [][2]int) {
+		g := expr.Int(1)
+		for _, p := range pairs {
+			m, err := g.Mul(expr.FromAtom(expr.NewMetric(slotIdx[p[0]], slotIdx[p[1]]), 1))
+			if err != nil {
+				perr = err
+				return
+			}
+			g = m
+		}
+		sym = sym.Add(g)
+	})
+	if perr != nil {
+		return expr.Expr{}, info, perr
+	}
+	n := rank / 2
+	den := expr.RFInt(1)
+	d := expr.RFVar(expr.DimSymbol)
+	for j := 0; j < n; j++ {
+		den = den.Mul(d.Add(expr.RFInt(int64(2 * j))))
+	}
+	inv, _ := den.Inv()
+	tens, err := base.Mul(sym)
+	if err != nil {
+		return expr.Expr{}, info, err
+	}
+	scalar, vinfo, err := vacuum.OneLoop(ksq+n, lines)
+	if err != nil {
+		return expr.Expr{}, info, err
+	}
+	info.Merge(vinfo)
+	res, err := tens.Mul(scalar)
+	if err != nil {
+		return expr.Expr{}, info, err
+	}
+	return res.Scale(inv), info, nil
+}
