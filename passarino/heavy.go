@@ -21,8 +21,8 @@ type Small struct {
 	Order   int      // total order in the small quantities
 }
 
-func (s Small) isMom(p string) bool   { return slices.Contains(s.Momenta, p) }
-func (s Small) isMass(m string) bool  { return slices.Contains(s.Masses, m) }
+func (s Small) isMom(p string) bool  { return slices.Contains(s.Momenta, p) }
+func (s Small) isMass(m string) bool { return slices.Contains(s.Masses, m) }
 func (s Small) hasAny(r expr.RatFunc) bool {
 	for _, v := range r.Vars() {
 		if s.isMass(v) {
