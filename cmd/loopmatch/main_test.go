@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"encoding/json"
 	"flag"
 	"os"
 	"path/filepath"
@@ -106,5 +107,37 @@ func TestBadFileError(t *testing.T) {
 	_, errOut, code := runCLI("check", f)
 	if code != exitBadInput || !strings.Contains(errOut, f+":3:1: expected an expression, found the end of the file") {
 		t.Errorf("exit %d, stderr %q", code, errOut)
+	}
+}
+
+// TestReduceExpand checks that a tadpole written as a loop and as A0(M) reduce to the same
+// ε-expansion, PHYSICS.md's A0(M) = M²(1/ε + 1 − ln(M²/μ²)) + O(ε), and that a non-vacuum
+// scalar integral is refused on the heavy route instead of being treated as ε-free.
+func TestReduceExpand(t *testing.T) {
+	dir := t.TempDir()
+	f := filepath.Join(dir, "a0.lm")
+	src := "masses M\nmomenta p\namplitude a = A0(M)\namplitude b = loop k { 1/(k^2 - M^2) } * 16*pi^2/I\n"
+	if err := os.WriteFile(f, []byte(src), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, errOut, code := runCLI("reduce", f, "--expand", "p:0", "--format", "json")
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var doc struct {
+		Amplitudes []struct {
+			Coeffs map[string]string `json:"eps_coefficients"`
+		} `json:"amplitudes"`
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	a, b := doc.Amplitudes[0].Coeffs, doc.Amplitudes[1].Coeffs
+	if a["-1"] != "M^2" || a["0"] != "M^2 - 2*M^2*log(M) + 2*M^2*log(mu)" || a["-1"] != b["-1"] || a["0"] != b["0"] {
+		t.Errorf("A0(M) = %v, loop = %v", a, b)
+	}
+	_, errOut, code = runCLI("reduce", "../../testdata/integrals.lm", "--expand", "p:2")
+	if code != exitBadInput || !strings.Contains(errOut, "B0(p.p; m, M) is not a vacuum integral") {
+		t.Errorf("exit %d: %s", code, errOut)
 	}
 }

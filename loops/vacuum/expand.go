@@ -5,6 +5,7 @@ import (
 	"math/big"
 
 	"loopmatch/expr"
+	"loopmatch/loops"
 )
 
 // Master describes a master integral atom: how deep its ε poles go and how it expands.
@@ -23,6 +24,17 @@ func Register(name string, m Master) { masters[name] = m }
 
 func init() {
 	Register(TadName, Master{Poles: 1, Series: tadSeries})
+	// The notation's A0(m) takes the mass, not its square.
+	Register("A0", Master{Poles: 1, Series: func(args []expr.Expr, order int, positive func(string) bool) (expr.Series, error) {
+		if len(args) != 1 {
+			return expr.Series{}, fmt.Errorf("A0 takes one argument")
+		}
+		m2, err := args[0].Mul(args[0])
+		if err != nil {
+			return expr.Series{}, err
+		}
+		return tadSeries([]expr.Expr{m2}, order, positive)
+	}})
 }
 
 // tadSeries is Tad(M²) = −M² e^{γ_E ε} Γ(−1+ε) (M²/μ²)^{−ε} up to O(ε^order).
@@ -84,6 +96,9 @@ func ExpandEps(e expr.Expr, order int, positive func(string) bool) (expr.Series,
 			f, ok := a.A.(expr.Fn)
 			m, isMaster := masters[f.Name]
 			if !ok || !isMaster {
+				if loops.IsScalarAtom(a.A) {
+					return expr.Series{}, fmt.Errorf("%s is not a vacuum integral: its ε-expansion is not known symbolically (evaluate it numerically)", a.A.Key())
+				}
 				rest.Atoms = append(rest.Atoms, a)
 				continue
 			}
