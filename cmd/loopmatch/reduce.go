@@ -191,4 +191,3 @@ func runReduce(args []string, out, errOut io.Writer) int {
 	}
 	return exitOK
 }
-
