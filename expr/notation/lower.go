@@ -46,6 +46,10 @@ type lowerer struct {
 	loops []string
 	env   []map[string]binding
 	depth int
+	// op is set while lowering an operator definition: leg names are fields and bar(…), F(…),
+	// G(…), D(…) are allowed; pendingD holds derivative indices waiting for the next field.
+	op       bool
+	pendingD []string
 }
 
 // maxDefineDepth bounds nested define expansion (and catches recursive defines).
@@ -243,6 +247,9 @@ func negate(v value) value {
 }
 
 func (l *lowerer) product(p *Product) (value, error) {
+	if l.op {
+		return l.opProduct(p)
+	}
 	v, err := l.power(p.First)
 	if err != nil {
 		return value{}, err
@@ -728,6 +735,10 @@ func (l *lowerer) ref(r *NameRef) (value, error) {
 	case KindIndex:
 		return value{}, errorf(r.Pos, "%s is a Lorentz index; use it inside gamma(%s), p[%s], g(%s, nu), sigma(%s, nu)", name, name, name, name, name)
 	case KindLeg:
+		if l.op {
+			leg, _ := l.p.Leg(name)
+			return l.field(leg, false, r.Pos)
+		}
 		return value{}, errorf(r.Pos, "%s is an external leg; use its spinor (u(%s), ubar(%s), v(%s), vbar(%s)) or its momentum", name, name, name, name, name)
 	}
 	return value{}, errorf(r.Pos, "%s is a %s and cannot be used as a value here", name, d.Kind)
@@ -828,7 +839,27 @@ func (l *lowerer) call(r *NameRef) (value, error) {
 		return l.integralCall(r, want)
 	}
 	if why, ok := operatorOnly[name]; ok {
-		return value{}, errorf(r.Pos, "%s(…) is %s; it may appear only in an operator definition", name, why)
+		if !l.op {
+			return value{}, errorf(r.Pos, "%s(…) is %s; it may appear only in an operator definition", name, why)
+		}
+		switch name {
+		case "bar":
+			if len(groups) != 1 || len(groups[0].Args) != 1 {
+				return value{}, errorf(r.Pos, "bar takes one fermion leg")
+			}
+			n, pos, ok := argName(groups[0].Args[0])
+			if !ok {
+				return value{}, errorf(r.Pos, "bar takes one fermion leg")
+			}
+			leg, ok := l.p.Leg(l.resolveName(n))
+			if !ok {
+				return value{}, errorf(pos, "bar(%s): %s is not an external leg", n, n)
+			}
+			return l.field(leg, true, pos)
+		case "F", "G":
+			return l.fieldStrength(r)
+		}
+		return value{}, errorf(r.Pos, "D(…) must stand directly before the field it differentiates")
 	}
 	n, ok := functionArity[name]
 	if ok {

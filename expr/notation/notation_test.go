@@ -181,3 +181,42 @@ func TestExamplesParse(t *testing.T) {
 		t.Fatal(err)
 	}
 }
+
+// TestMatrixElement checks the tree-level matrix elements of operators: fields become the
+// spinors of their legs, F(al, be) of an outgoing photon of momentum q and polarisation eA
+// becomes i(q[al] eA[be] − q[be] eA[al]) (A_μ ∝ ε* e^{+iqx} for a created photon), and D(al) on
+// the field of an incoming particle of momentum p gives −i p[al] (e^{−ipx}).
+func TestMatrixElement(t *testing.T) {
+	src := header + `
+operator O1 = bar(b) PR a
+operator O2 = bar(b) gamma(al) D(al) a
+operator O3 = bar(b) sigma(al, be) a * F(al, be)
+operator O4 = bar(a) b
+operator O5 = D(al) bar(b) gamma(al) a
+`
+	p, err := Parse("t.lm", []byte(src))
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := map[string]string{
+		"O1": "(ubar(b) PR u(a))",
+		"O2": "-I*(ubar(b) slash(p) u(a))",
+		"O3": "-I*eA[al]*q[be]*(ubar(b) sigma(al, be) u(a)) + I*eA[be]*q[al]*(ubar(b) sigma(al, be) u(a))",
+		"O5": "I*(ubar(b) slash(p) u(a)) - I*(ubar(b) slash(q) u(a))",
+	}
+	for _, o := range p.Operators {
+		m, err := p.MatrixElement(o)
+		if o.Name == "O4" {
+			if err == nil || !strings.Contains(err.Error(), "leg a is an incoming fermion: its field in the operator is a") {
+				t.Errorf("O4: error %v", err)
+			}
+			continue
+		}
+		if err != nil {
+			t.Fatalf("%s: %v", o.Name, err)
+		}
+		if got := m.String(); got != want[o.Name] {
+			t.Errorf("%s = %s, want %s", o.Name, got, want[o.Name])
+		}
+	}
+}
