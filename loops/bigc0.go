@@ -29,8 +29,7 @@ func (n bnum) ty(t *btri, i, j int) *big.Float {
 	if i == j {
 		return n.fl(t.m2[i])
 	}
-	y := new(big.Float).SetPrec(n.w).Add(t.m2[i], t.m2[j])
-	y.Sub(y, t.s[i][j])
+	y := n.sum3(t.m2[i], t.m2[j], t.s[i][j])
 	return y.Quo(y, n.f(2))
 }
 
@@ -102,34 +101,51 @@ func (n bnum) c0Projective(t *btri, lam *big.Float) (bc, error) {
 	s01, s12, s02 := t.s[0][1], t.s[1][2], t.s[0][2]
 	mul := func(x, y *big.Float) *big.Float { return new(big.Float).SetPrec(w).Mul(x, y) }
 	half := n.f(0.5)
-	g11, g22 := s01, s02
-	g12 := new(big.Float).SetPrec(w).Add(s01, s02)
-	g12.Sub(g12, s12)
-	g12.Mul(g12, half)
+	// F* = m_r² + Φ* at the reference line r of smallest mass (see tri.fStar)
+	ref := 0
+	for i := 1; i < 3; i++ {
+		if t.m2[i].Cmp(t.m2[ref]) < 0 {
+			ref = i
+		}
+	}
+	ra, rb := (ref+1)%3, (ref+2)%3
+	gaa, gbb := t.s[ref][ra], t.s[ref][rb]
+	gab := new(big.Float).SetPrec(w).Add(t.s[ref][ra], t.s[ref][rb])
+	gab.Sub(gab, t.s[ra][rb])
+	gab.Mul(gab, half)
 	detG := new(big.Float).SetPrec(w).Quo(lam, n.f(-4))
-	f1 := new(big.Float).SetPrec(w).Sub(t.m2[1], t.m2[0])
-	f1.Sub(f1, s01)
-	f1.Mul(f1, half)
-	f2 := new(big.Float).SetPrec(w).Sub(t.m2[2], t.m2[0])
-	f2.Sub(f2, s02)
-	f2.Mul(f2, half)
-	q := mul(mul(f1, f1), g22)
-	q.Sub(q, mul(mul(mul(f1, f2), g12), n.f(2)))
-	q.Add(q, mul(mul(f2, f2), g11))
+	fa := new(big.Float).SetPrec(w).Sub(n.ty(t, ref, ra), n.ty(t, ref, ref))
+	fb := new(big.Float).SetPrec(w).Sub(n.ty(t, ref, rb), n.ty(t, ref, ref))
+	q := mul(mul(fa, fa), gbb)
+	q.Sub(q, mul(mul(mul(fa, fb), gab), n.f(2)))
+	q.Add(q, mul(mul(fb, fb), gaa))
 	phiStar := new(big.Float).SetPrec(w).Quo(q, detG)
 	phiStar.Neg(phiStar)
-	fStar := new(big.Float).SetPrec(w).Add(t.m2[0], phiStar)
+	fStar := new(big.Float).SetPrec(w).Add(t.m2[ref], phiStar)
 	lnFStar := n.lnMinusI0(fStar)
 	// P = (a, 1, −a−1) or (1, b, −1−b)
 	qb := new(big.Float).SetPrec(w).Add(s02, s12)
 	qb.Sub(qb, s01)
 	var P [3]bc
+	small := func(p, x bc) bool { return n.abs(p) < 0.5*(n.abs(x)+1) }
 	if new(big.Float).Abs(s02).Cmp(new(big.Float).Abs(s12)) >= 0 {
 		a := n.quadRoot(s02, qb, s12, lam)
-		P = [3]bc{a, n.one(), a.Neg().Sub(n.one())}
+		p2 := a.Neg().Sub(n.one())
+		if small(p2, a) {
+			if d := n.r(s12).Add(a.Scale(s02)); !d.IsZero() {
+				p2 = a.Scale(s01).Quo(d).Neg()
+			}
+		}
+		P = [3]bc{a, n.one(), p2}
 	} else {
 		b := n.quadRoot(s12, qb, s02, lam)
-		P = [3]bc{n.one(), b, b.Neg().Sub(n.one())}
+		p2 := b.Neg().Sub(n.one())
+		if small(p2, b) {
+			if d := b.Scale(s12).Add(n.r(s02)); !d.IsZero() {
+				p2 = b.Scale(s01).Quo(d).Neg()
+			}
+		}
+		P = [3]bc{n.one(), b, p2}
 	}
 	var l [3]bc
 	for i := 0; i < 3; i++ {
@@ -144,9 +160,12 @@ func (n bnum) c0Projective(t *btri, lam *big.Float) (bc, error) {
 			continue
 		}
 		j, k := edge(i)
+		if t.m2[k].Cmp(t.m2[j]) < 0 { // lighter vertex at t = 0 (see c0Projective)
+			j, k = k, j
+		}
 		A := n.fl(t.s[j][k])
-		B := new(big.Float).SetPrec(w).Sub(t.m2[k], t.m2[j])
-		B.Sub(B, A)
+		B := new(big.Float).SetPrec(w).Sub(n.ty(t, j, k), n.ty(t, j, j))
+		B.Mul(B, n.f(2))
 		C := n.fl(t.m2[j])
 		beta := l[k].Sub(l[j])
 		pre := P[i].Scale(half)
@@ -185,27 +204,47 @@ func (n bnum) quadRoot(A, B, C, lam *big.Float) bc {
 	return bc{Re: re, Im: sq.Quo(sq, twoA)}
 }
 
-// edgeIntegral is the arbitrary-precision ∫₀¹ [ln(F(t) − i0) − ln(F* − i0)]/(t − t0) dt.
+// edgeIntegral is the arbitrary-precision form of edgeIntegral: Σ_k R(t0, y_k) + 2πi k ∫dt/(t−t0),
+// with t0 − y_k from F(t0) = F* when t0 is very close to a root.
 func (n bnum) edgeIntegral(A, B, C *big.Float, t0 bc, fStar *big.Float, lnFStar bc) (bc, error) {
 	roots, lnLead, ok := n.quadRootsI0(A, B, C)
 	if !ok {
 		return bc{}, fmt.Errorf("%w: C0 with a vanishing edge quadratic", ErrNotCovered)
 	}
+	cs := make([]bc, len(roots))
+	for k, y := range roots {
+		cs[k] = t0.Sub(y)
+	}
+	near := func(c, y bc) bool {
+		lim := math.Ldexp(1+n.abs(y), -int(n.w)/4)
+		return n.abs(c) < lim
+	}
+	for k, y := range roots {
+		if !near(cs[k], y) || fStar.Sign() == 0 {
+			continue
+		}
+		var re bc
+		if len(roots) == 2 {
+			if near(cs[1-k], roots[1-k]) {
+				continue
+			}
+			re = n.r(fStar).Quo(cs[1-k].Scale(A))
+		} else {
+			re = n.r(new(big.Float).SetPrec(n.w).Quo(fStar, B))
+		}
+		if t0.Im.Sign() == 0 {
+			re = bc{Re: re.Re, Im: n.fl(cs[k].Im)}
+		}
+		cs[k] = re
+	}
 	sum := n.zero()
-	rough := lnLead
-	for _, y := range roots {
-		sum = sum.Add(n.rfun(t0, y))
-		rough = rough.Add(n.log(t0.Sub(y)))
+	rough := lnLead.Sub(lnFStar)
+	for k, y := range roots {
+		sum = sum.Add(n.rfunC(t0, y, cs[k]))
+		rough = rough.Add(n.log(cs[k]))
 	}
-	rough = rough.Sub(lnFStar)
-	ft0 := t0.Scale(A).Add(n.r(B)).Mul(t0).Add(n.r(C))
-	acc := n.log(ft0).Sub(lnFStar)
-	k := math.Round((n.imF(rough) - n.imF(acc)) / (2 * math.Pi))
-	if k != 0 {
-		acc = acc.Add(bc{Re: n.f(0), Im: new(big.Float).SetPrec(n.w).Mul(n.pi(), n.f(2*k))})
-	}
-	if !acc.IsZero() {
-		sum = sum.Add(acc.Mul(n.lt0(t0)))
+	if k := math.Round(n.imF(rough) / (2 * math.Pi)); k != 0 {
+		sum = sum.Add(bc{Re: n.f(0), Im: new(big.Float).SetPrec(n.w).Mul(n.pi(), n.f(2*k))}.Mul(n.lt0(t0)))
 	}
 	return sum, nil
 }

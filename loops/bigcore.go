@@ -37,6 +37,36 @@ func (n bnum) phase(z bc) float64 {
 	return f
 }
 
+// sum3 returns a + b − c rounded once to the working precision (the intermediate sum is exact),
+// so that Y_ij = (m_i² + m_j² − s_ij)/2 keeps a small mass next to an on-shell leg.
+func (n bnum) sum3(a, b, c *big.Float) *big.Float {
+	p := a.Prec()
+	for _, x := range []*big.Float{b, c} {
+		if x.Prec() > p {
+			p = x.Prec()
+		}
+	}
+	lo, hi := 0, 0
+	first := true
+	for _, x := range []*big.Float{a, b, c} {
+		if x.Sign() == 0 {
+			continue
+		}
+		e := x.MantExp(nil)
+		if first || e < lo {
+			lo = e
+		}
+		if first || e > hi {
+			hi = e
+		}
+		first = false
+	}
+	q := p + uint(hi-lo) + 8
+	s := new(big.Float).SetPrec(q).Add(a, b)
+	s.Sub(s, c)
+	return new(big.Float).SetPrec(n.w).Set(s)
+}
+
 // tiny returns 2^{−3w}·(1 + |x|): the magnitude of an infinitesimal imaginary part, far below the
 // working precision.
 func (n bnum) tiny(x *big.Float) *big.Float {
@@ -96,8 +126,10 @@ func (n bnum) lt0(t0 bc) bc {
 
 // rfun is the arbitrary-precision R(t0, y) = ∫₀¹ [ln(t−y) − ln(t0−y)]/(t − t0) dt in the
 // dilogarithm form of rfunLi2 (valid in every regime; cancellations are covered by the guard bits).
-func (n bnum) rfun(t0, y bc) bc {
-	c := t0.Sub(y)
+func (n bnum) rfun(t0, y bc) bc { return n.rfunC(t0, y, t0.Sub(y)) }
+
+// rfunC is rfun with c = t0 − y supplied by the caller.
+func (n bnum) rfunC(t0, y, c bc) bc {
 	ic := c.Inv()
 	argc := n.phase(c)
 	etaAt := func(t *big.Float) float64 {

@@ -56,8 +56,7 @@ func (n bnum) by(b *bbox, i, j int) *big.Float {
 	if i == j {
 		return n.fl(b.m2[i])
 	}
-	y := new(big.Float).SetPrec(n.w).Add(b.m2[i], b.m2[j])
-	y.Sub(y, b.s[i][j])
+	y := n.sum3(b.m2[i], b.m2[j], b.s[i][j])
 	return y.Quo(y, n.f(2))
 }
 
@@ -165,12 +164,7 @@ func (n bnum) projectionPoint(b *bbox, ch projChoice) (P, l [4]*big.Float, err e
 				if disc.Sign() < 0 {
 					return P, l, fmt.Errorf("%w: D0 projection point lost in arbitrary precision", ErrNotCovered)
 				}
-				sq := new(big.Float).SetPrec(w).Sqrt(disc)
-				for _, sg := range []float64{1, -1} {
-					r := new(big.Float).SetPrec(w).Mul(sq, n.f(sg))
-					r.Sub(r, B)
-					roots = append(roots, r.Quo(r, A))
-				}
+				roots = n.stableRoots(A, B, C, disc)
 			}
 			want := ch.mu / ch.nu
 			best := roots[0]
@@ -215,12 +209,7 @@ func (n bnum) projectionPoint(b *bbox, ch projChoice) (P, l [4]*big.Float, err e
 			if disc.Sign() < 0 {
 				return P, l, fmt.Errorf("%w: D0 projection point lost in arbitrary precision", ErrNotCovered)
 			}
-			sq := new(big.Float).SetPrec(w).Sqrt(disc)
-			for _, sg := range []float64{1, -1} {
-				r := new(big.Float).SetPrec(w).Mul(sq, n.f(sg))
-				r.Sub(r, c1)
-				taus = append(taus, r.Quo(r, c2))
-			}
+			taus = n.stableRoots(c2, c1, c0, disc)
 		}
 		tau := taus[0]
 		for _, t := range taus[1:] {
@@ -248,6 +237,25 @@ func (n bnum) projectionPoint(b *bbox, ch projChoice) (P, l [4]*big.Float, err e
 		}
 	}
 	return P, l, nil
+}
+
+// stableRoots returns the roots of A r² + 2B r + C = 0 (disc = B² − AC ≥ 0) as q/A and C/q with
+// q = −(B + sign(B)√disc), free of cancellation when one root is much smaller than the other.
+func (n bnum) stableRoots(A, B, C, disc *big.Float) []*big.Float {
+	w := n.w
+	sq := new(big.Float).SetPrec(w).Sqrt(disc)
+	if B.Sign() < 0 {
+		sq.Neg(sq)
+	}
+	q := new(big.Float).SetPrec(w).Add(B, sq)
+	q.Neg(q)
+	var out []*big.Float
+	if q.Sign() != 0 {
+		out = append(out, new(big.Float).SetPrec(w).Quo(q, A), new(big.Float).SetPrec(w).Quo(C, q))
+	} else {
+		out = append(out, n.f(0))
+	}
+	return out
 }
 
 func (n bnum) inverse4(b *bbox) ([4][4]*big.Float, bool) {
@@ -297,9 +305,98 @@ func (n bnum) inverse4(b *bbox) ([4][4]*big.Float, bool) {
 
 // d0Divergent is the arbitrary-precision counterpart of d0Divergent.
 func (n bnum) d0Divergent(b *bbox, fb *box, sc float64, mu2 *big.Float) (BigValue, bool, error) {
-	soft, coll := irStructure(fb, sc)
-	if len(soft) == 0 && len(coll) == 0 {
+	terms, divergent, err := irSubtraction(fb, sc)
+	if !divergent {
 		return BigValue{}, false, nil
 	}
-	return BigValue{}, true, fmt.Errorf("%w: infrared-divergent D0 (soft lines %v, collinear pairs %v)", ErrNotCovered, soft, coll)
+	if err != nil {
+		return BigValue{}, true, err
+	}
+	sb := n.snapOnShell(b, fb, sc)
+	v, err := n.d0Subtracted(&sb, fb, terms, mu2)
+	return v, true, err
+}
+
+// snapOnShell is the arbitrary-precision form of snapOnShell.
+func (n bnum) snapOnShell(b *bbox, fb *box, sc float64) bbox {
+	out := *b
+	set := func(i, j int, v *big.Float) { out.s[i][j], out.s[j][i] = n.fl(v), n.fl(v) }
+	soft, coll := irStructure(fb, sc)
+	for _, a := range soft {
+		p, q := (a+3)%4, (a+1)%4
+		set(a, p, b.m2[p])
+		set(a, q, b.m2[q])
+	}
+	for _, pr := range coll {
+		set(pr[0], pr[1], n.f(0))
+	}
+	return out
+}
+
+// d0Subtracted is the arbitrary-precision form of d0Subtracted; the regulator is λ² = 2^{−(w+64)}
+// of the scale: the remainder vanishes like λ² ln²λ, below the working precision, while λ² stays
+// far above the infinitesimals 2^{−3w} of the formulas and inside the float64 range of the image
+// used to choose projection points.
+func (n bnum) d0Subtracted(b *bbox, fb *box, terms []irTerm, mu2 *big.Float) (BigValue, error) {
+	sc := fb.scale()
+	e := int(n.w) + 64
+	if e > 1000 {
+		e = 1000
+	}
+	reg := n.f(math.Ldexp(sc, -e))
+	v := BigValue{n.zero(), n.zero(), n.zero()}
+	sLam := n.zero()
+	sub := func(l [3]int, r *big.Float) btri {
+		m := func(i int) *big.Float {
+			if b.m2[i].Sign() == 0 && r != nil {
+				return r
+			}
+			return b.m2[i]
+		}
+		return n.tri(b.s[l[0]][l[1]], b.s[l[1]][l[2]], b.s[l[0]][l[2]], m(l[0]), m(l[1]), m(l[2]))
+	}
+	K := func(i, j int) *big.Float { return new(big.Float).SetPrec(n.w).Sub(b.s[i][j], b.m2[j]) }
+	mul := func(x, y *big.Float) *big.Float { return new(big.Float).SetPrec(n.w).Mul(x, y) }
+	for _, t := range terms {
+		var k *big.Float
+		switch t.kind {
+		case 0:
+			k = new(big.Float).SetPrec(n.w).Quo(n.f(1), K(t.a, t.c))
+		default:
+			kac, kbc, kad, kbd := K(t.a, t.c), K(t.b, t.c), K(t.a, t.d), K(t.b, t.d)
+			delta := new(big.Float).SetPrec(n.w).Sub(mul(kac, kbd), mul(kad, kbc))
+			if t.kind == 1 {
+				k = new(big.Float).SetPrec(n.w).Sub(kac, kbc)
+			} else {
+				k = new(big.Float).SetPrec(n.w).Sub(kbd, kad)
+			}
+			k.Quo(k, delta)
+		}
+		tr := sub(t.lines, nil)
+		c, err := n.c0(&tr, mu2)
+		if err != nil {
+			return BigValue{}, err
+		}
+		v.Pole2 = v.Pole2.Add(c.Pole2.Scale(k))
+		v.Pole1 = v.Pole1.Add(c.Pole1.Scale(k))
+		v.Finite = v.Finite.Add(c.Finite.Scale(k))
+		trl := sub(t.lines, reg)
+		cl, err := n.c0Finite(&trl)
+		if err != nil {
+			return BigValue{}, err
+		}
+		sLam = sLam.Add(cl.Scale(k))
+	}
+	bl := *b
+	for i := range bl.m2 {
+		if bl.m2[i].Sign() == 0 {
+			bl.m2[i] = reg
+		}
+	}
+	dl, err := n.d0Finite(&bl)
+	if err != nil {
+		return BigValue{}, err
+	}
+	v.Finite = v.Finite.Add(dl.Sub(sLam))
+	return v, nil
 }

@@ -133,22 +133,22 @@ func (n bnum) c0Collinear(M2, al, be, mu2 *big.Float) BigValue {
 	}
 	la, lb := lnx(al), lnx(be)
 	if al.Cmp(be) == 0 {
-		// f′(a) with f(a) = ½ ln²(a/μ²) + Li2(1 − M²/a)
+		// −g′(a) + h′(a), g = ½ ln²(a/μ²), h = Li2(1 − M²/a) (see c0Collinear)
 		a := al
 		ia := new(big.Float).SetPrec(w).Quo(n.f(1), a)
-		var fp bc
+		var fin bc
 		switch {
 		case M2.Sign() == 0:
-			fp = la.Scale(ia)
+			fin = la.Scale(ia).Neg()
 		case a.Cmp(M2) == 0:
-			fp = la.Add(n.one()).Scale(ia)
+			fin = n.one().Sub(la).Scale(ia)
 		default:
 			d := new(big.Float).SetPrec(w).Sub(a, M2)
 			d.Mul(d, a)
 			lr := n.log(n.r(M2)).Sub(n.lnMinusI0(a))
-			fp = la.Scale(ia).Sub(lr.Scale(new(big.Float).SetPrec(w).Quo(M2, d)))
+			fin = la.Scale(ia).Neg().Sub(lr.Scale(new(big.Float).SetPrec(w).Quo(M2, d)))
 		}
-		return BigValue{n.zero(), n.r(ia), fp.Neg()}
+		return BigValue{n.zero(), n.r(ia), fin}
 	}
 	d := n.r(new(big.Float).SetPrec(w).Sub(be, al))
 	return BigValue{

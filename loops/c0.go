@@ -69,13 +69,21 @@ func edge(i int) (int, int) {
 }
 
 // quad returns the coefficients of F on the edge opposite vertex i, parametrised from vertex j
-// (t = 0) to vertex k (t = 1): F_i(t) = A t² + B t + C.
-func (t *tri) quad(i int) (A, B, C float64) {
+// (t = 0) to vertex k (t = 1): F_i(t) = A t² + B t + C, and its discriminant
+// B² − 4AC = 4(Y_jk² − Y_jj Y_kk) = λ(s_jk, m_j², m_k²) in product form.
+func (t *tri) quad(i int) (A, B, C, disc float64) {
 	j, k := edge(i)
 	A = t.s[j][k]
 	B = 2 * (t.yy[j][k] - t.yy[j][j]) // = m_k² − m_j² − s_jk
 	C = t.m2[j]
+	disc = edgeDisc(t.yy[j][k], t.yy[j][j], t.yy[k][k])
 	return
+}
+
+// edgeDisc returns 4(y² − a b) = 4(y − √(ab))(y + √(ab)) for a, b ≥ 0.
+func edgeDisc(y, a, b float64) float64 {
+	r := math.Sqrt(a * b)
+	return 4 * (y - r) * (y + r)
 }
 
 func (t *tri) scale() float64 {
@@ -148,24 +156,32 @@ func c0Projective(t *tri) (complex128, float64, error) {
 	if math.Abs(lam) <= 1e-13*sc*sc {
 		return c0DegenerateGram(t)
 	}
-	// Gram matrix of p1 = k1 − k0, p2 = k2 − k0 and the vector f_j = (m_j² − m0² − s_0j)/2:
-	// det Y = m0² det G − fᵀ adj(G) f, so F* − m0² = −fᵀ adj(G) f / det G without cancellation.
-	g11, g22 := s01, s02
-	g12 := 0.5 * sum3(s01, s02, -s12)
-	detG := -lam / 4
-	f1 := t.yy[0][1] - t.yy[0][0] // (m1² − m0² − s01)/2
-	f2 := t.yy[0][2] - t.yy[0][0]
-	phiStar := -(f1*f1*g22 - 2*f1*f2*g12 + f2*f2*g11) / detG
-	fStar := t.m2[0] + phiStar
+	fStar, _, _ := t.fStar(lam)
 	// P = (a, b, −a−b) with a² s02 + a b (s02 + s12 − s01) + b² s12 = 0.
 	var P [3]complex128
 	qb := sum3(s02, s12, -s01)
+	// The third component also follows from Pᵀ Y P = −(P0 P1 s01 + P1 P2 s12 + P0 P2 s02) = 0; that
+	// form is used when −a−1 (or −1−b) would cancel, i.e. when s01 is small against the others (a
+	// light-like or nearly light-like leg): the small component then keeps its relative accuracy,
+	// which the polar coefficients l = Y P need when some of them are small too.
 	if math.Abs(s02) >= math.Abs(s12) {
 		a := quadRoot(s02, qb, s12, lam)
-		P = [3]complex128{a, 1, -a - 1}
+		p2 := -a - 1
+		if cmplx.Abs(p2) < 0.5*(cmplx.Abs(a)+1) {
+			if d := complex(s12, 0) + a*complex(s02, 0); d != 0 {
+				p2 = -a * complex(s01, 0) / d
+			}
+		}
+		P = [3]complex128{a, 1, p2}
 	} else {
 		b := quadRoot(s12, qb, s02, lam)
-		P = [3]complex128{1, b, -1 - b}
+		p2 := -1 - b
+		if cmplx.Abs(p2) < 0.5*(cmplx.Abs(b)+1) {
+			if d := b*complex(s12, 0) + complex(s02, 0); d != 0 {
+				p2 = -b * complex(s01, 0) / d
+			}
+		}
+		P = [3]complex128{1, b, p2}
 	}
 	var l [3]complex128
 	for i := 0; i < 3; i++ {
@@ -181,7 +197,15 @@ func c0Projective(t *tri) (complex128, float64, error) {
 			continue
 		}
 		j, k := edge(i)
-		A, B, C := t.quad(i)
+		// Orient the edge so that its lighter vertex sits at t = 0: roots and t0 close to a vertex
+		// with a small mass keep their digits there (∫₀¹ is invariant under t → 1 − t with j ↔ k).
+		if t.m2[k] < t.m2[j] {
+			j, k = k, j
+		}
+		A := t.s[j][k]
+		B := 2 * (t.yy[j][k] - t.yy[j][j]) // m_k² − m_j² − s_jk
+		C := t.m2[j]
+		disc := edgeDisc(t.yy[j][k], t.yy[j][j], t.yy[k][k])
 		beta := l[k] - l[j]
 		pre := P[i] / 2
 		if cmplx.Abs(beta) <= 1e-15*(cmplx.Abs(l[j])+cmplx.Abs(l[k])) {
@@ -193,12 +217,34 @@ func c0Projective(t *tri) (complex128, float64, error) {
 			continue
 		}
 		t0 := -l[j] / beta
-		e, m := edgeIntegral(A, B, C, t0, fStar, lnFStar, t.m2[0], phiStar)
+		e, m := edgeIntegral(A, B, C, disc, t0, fStar, lnFStar)
 		sum += pre * e / beta
 		mag += cmplx.Abs(pre/beta) * m
 	}
 	cond := mag / math.Max(cmplx.Abs(sum), 1e-300)
 	return sum, cond, nil
+}
+
+// fStar returns F* = F(x*) = det Y / det G, the value of F at the pole of the line at infinity,
+// as m_r² + Φ*, Φ* = −fᵀ adj(G) f / det G, with the Gram matrix G_ab = p_a·p_b of p_a = k_a − k_r and
+// f_a = Y_ra − Y_rr taken at the reference line r of smallest mass: F* is small exactly when x* is
+// near a vertex with a small mass (near-infrared kinematics), and this form keeps its digits.
+// lam is λ(s01, s12, s02) (det G = −λ/4 for every reference).
+func (t *tri) fStar(lam float64) (fStar, phiStar float64, ref int) {
+	ref = 0
+	for i := 1; i < 3; i++ {
+		if t.m2[i] < t.m2[ref] {
+			ref = i
+		}
+	}
+	a, b := (ref+1)%3, (ref+2)%3
+	gaa, gbb := t.s[ref][a], t.s[ref][b]
+	gab := 0.5 * sum3(t.s[ref][a], t.s[ref][b], -t.s[a][b])
+	detG := -lam / 4
+	fa := t.yy[ref][a] - t.yy[ref][ref]
+	fb := t.yy[ref][b] - t.yy[ref][ref]
+	phiStar = -(fa*fa*gbb - 2*fa*fb*gab + fb*fb*gaa) / detG
+	return t.m2[ref] + phiStar, phiStar, ref
 }
 
 // quadRoot returns a root of A x² + B x + C = 0 (A ≠ 0) with discriminant lam = B² − 4AC given,
@@ -228,9 +274,8 @@ func lnMinusI0(x float64) complex128 {
 // 2πi: t0 lies on the line B = 0 through P and x*, along which F ≡ F* (F(x* + τP) = F(x*) because
 // B(x*) = F(P) = 0), so F(t0) = F*. The same identity gives t0 − y_k = F*/(A (t0 − y_other)) without
 // cancellation when t0 is close to a root (F* small: near-infrared or near-threshold kinematics).
-// phiStar = F* − m0sq is accepted for symmetry with callers and not needed here.
-func edgeIntegral(A, B, C float64, t0 complex128, fStar float64, lnFStar complex128, m0sq, phiStar float64) (complex128, float64) {
-	roots, lnLead, ok := quadRootsI0(A, B, C)
+func edgeIntegral(A, B, C, disc float64, t0 complex128, fStar float64, lnFStar complex128) (complex128, float64) {
+	roots, lnLead, ok := quadRootsI0(A, B, C, disc)
 	if !ok {
 		return cmplx.NaN(), math.Inf(1)
 	}
@@ -279,12 +324,17 @@ func edgeIntegral(A, B, C float64, t0 complex128, fStar float64, lnFStar complex
 // quadRootsI0 returns the roots of F(t) − i0 = A t² + B t + C − i0 (real roots carry the sign of
 // their infinitesimal imaginary part, Im y = +0/F′(y)) and the constant ln A + 2πi n such that
 // ln(F(t) − i0) = lnLead + Σ ln(t − y) on [0, 1]. ok is false for F ≡ 0.
-func quadRootsI0(A, B, C float64) (roots []complex128, lnLead complex128, ok bool) {
+//
+// disc = B² − 4AC is passed by the caller in a form without cancellation (a Källén function in
+// product form); disc ≤ −∞ (math.Inf(-1)) asks for B² − 4AC to be computed here.
+func quadRootsI0(A, B, C, disc float64) (roots []complex128, lnLead complex128, ok bool) {
 	var buf [2]complex128
 	roots = buf[:0]
 	switch {
 	case A != 0:
-		disc := B*B - 4*A*C
+		if math.IsInf(disc, -1) {
+			disc = B*B - 4*A*C
+		}
 		if disc >= 0 {
 			q := -0.5 * (B + math.Copysign(math.Sqrt(disc), B))
 			var y1, y2 float64

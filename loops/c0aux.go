@@ -215,21 +215,22 @@ func c0Chord(t *tri, P [3]float64) (complex128, float64, error) {
 	tm := (w[mid] - w[lo]) / (w[hi] - w[lo])
 	// F on the edge lo → hi: A τ² + B τ + C
 	A := t.s[lo][hi]
-	B := sum3(t.m2[hi], -t.m2[lo], -A)
+	B := 2 * (t.yy[lo][hi] - t.yy[lo][lo])
 	C := t.m2[lo]
+	disc := edgeDisc(t.yy[lo][hi], t.yy[lo][lo], t.yy[hi][hi])
 	var sum complex128
 	if tm > 0 {
-		sum += intLinOverQuad(0, 1/tm, A, B, C, 0, tm)
+		sum += intLinOverQuad(0, 1/tm, A, B, C, disc, 0, tm)
 	}
 	if tm < 1 {
-		sum += intLinOverQuad(1/(1-tm), -1/(1-tm), A, B, C, tm, 1)
+		sum += intLinOverQuad(1/(1-tm), -1/(1-tm), A, B, C, disc, tm, 1)
 	}
 	return -sum, 1, nil
 }
 
 // intLinOverQuad returns ∫_lo^hi (a0 + a1 τ)/(Aτ² + Bτ + C − i0) dτ.
-func intLinOverQuad(a0, a1, A, B, C, lo, hi float64) complex128 {
-	roots, _, ok := quadRootsI0(A, B, C)
+func intLinOverQuad(a0, a1, A, B, C, disc, lo, hi float64) complex128 {
+	roots, _, ok := quadRootsI0(A, B, C, disc)
 	if !ok {
 		return cmplx.Inf()
 	}

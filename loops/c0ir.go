@@ -97,8 +97,8 @@ func c0Soft(mb2, mc2, s, mu2 float64) Value {
 		i2 := 0.5 * (lb + lc) * i1
 		return Value{Pole1: complex(0.5*i1, 0), Finite: complex(-0.5*i2, 0)}
 	}
-	A, B, C := s, mb2-mc2-s, mc2
-	roots, lnLead, _ := quadRootsI0(A, B, C)
+	A, B, C := s, sum3(mb2, -mc2, -s), mc2
+	roots, lnLead, _ := quadRootsI0(A, B, C, kallen(s, mb2, mc2))
 	y1, y2 := roots[0], roots[1]
 	L := func(y complex128) complex128 { return clog(1-y) - clog(-y) }
 	pre := 1 / (complex(A, 0) * (y1 - y2))
@@ -120,7 +120,7 @@ func sqr(z complex128) complex128 { return z * z }
 // With F = x_c (al x_a + be x_b + M² x_c):
 //
 //	al, be ≠ 0: C0 = (1/ε) ln(be/al)/(be−al) − [ln²(be/μ²) − ln²(al/μ²)]/(2(be−al))
-//	                 − [Li2(1 − M²/al) − Li2(1 − M²/be)]/(be − al);
+//	                 − [Li2(1 − M²/al) − Li2(1 − M²/be)]/(be − al)  (al = be: the limit);
 //	al = 0:     C0 = (1/be)[−1/(2ε²) + (L_be − L_M/2)/ε − L_be²/2 + L_M²/4 + Li2(1 − M²/be) − π²/24];
 //	al = be = 0: C0 = −1/(2M² ε) + (1 + L_M/2)/M²,
 //
@@ -160,16 +160,18 @@ func c0Collinear(M2, al, be, mu2 float64) Value {
 		// equal (or nearly equal) arguments: derivatives at the midpoint, error O((be−al)²)
 		a := 0.5 * (al + be)
 		lx := lnx(a)
-		// f(a) = ½ ln²(a/μ²) + Li2(1 − M²/a), f′(a) = ln(a/μ²)/a − M² ln(M²/a)/(a(a − M²))
-		var fp complex128
-		if M2 == 0 {
-			fp = lx / complex(a, 0)
-		} else if a == M2 {
-			fp = (lx + 1) / complex(a, 0)
-		} else {
-			fp = lx/complex(a, 0) - complex(M2, 0)*(complex(math.Log(M2), 0)-lnMinusI0(a))/complex(a*(a-M2), 0)
+		// the limit of the difference quotients: with g(a) = ½ ln²(a/μ²), h(a) = Li2(1 − M²/a),
+		// Finite = −g′(a) + h′(a) = −ln(a/μ²)/a − M² ln(M²/a)/(a(a − M²)) (→ (1 − ln(a/μ²))/a at a = M²)
+		var fin complex128
+		switch {
+		case M2 == 0:
+			fin = -lx / complex(a, 0)
+		case a == M2:
+			fin = (1 - lx) / complex(a, 0)
+		default:
+			fin = -lx/complex(a, 0) - complex(M2, 0)*(complex(math.Log(M2), 0)-lnMinusI0(a))/complex(a*(a-M2), 0)
 		}
-		return Value{Pole1: complex(1/a, 0), Finite: -fp}
+		return Value{Pole1: complex(1/a, 0), Finite: fin}
 	}
 	d := complex(be-al, 0)
 	return Value{
