@@ -300,3 +300,50 @@ func TestD0InfraredSymmetry(t *testing.T) {
 		}
 	}
 }
+
+// TestC0InfraredRelabelling checks divergent triangles (soft, collinear with and without soft ends,
+// massless) at Euclidean and physical points under the six relabellings of their lines, their μ
+// dependence F(μ′) = F(μ) + P1 L + P2 L²/2 (L = ln(μ²/μ′²)), and the agreement with the
+// arbitrary-precision path.
+func TestC0InfraredRelabelling(t *testing.T) {
+	tris := []tri{
+		newTri(1, -0.5, 2.25, 0, 1, 2.25), // soft, Euclidean third leg
+		newTri(1, 7, 2.25, 0, 1, 2.25),    // soft, above threshold
+		newTri(0, -2, -3, 0, 0, 1),        // collinear
+		newTri(0, 5, 0.3, 0, 0, 1),        // collinear, physical
+		newTri(0, 1, -3, 0, 0, 1),         // collinear + soft end
+		newTri(0, 1, 4, 0, 0, 1),          // collinear + soft end, physical
+		newTri(0, 1, 1, 0, 0, 1),          // both soft ends
+		newTri(0, -2, 3, 0, 0, 0),         // massless, one light-like leg, physical
+		newTri(0, 0, 5, 0, 0, 0),          // massless, two light-like legs, physical
+	}
+	f := big.NewFloat
+	for _, tr := range tris {
+		ref, err := c0Of(tr)
+		if err != nil {
+			t.Fatalf("%+v: %v", tr, err)
+		}
+		size := cmplx.Abs(ref.Finite) + cmplx.Abs(ref.Pole1) + cmplx.Abs(ref.Pole2)
+		for _, p := range perms3[1:] {
+			v, _ := c0Of(permTri(tr, p))
+			if cmplx.Abs(v.Finite-ref.Finite)+cmplx.Abs(v.Pole1-ref.Pole1)+cmplx.Abs(v.Pole2-ref.Pole2) > 1e-12*size {
+				t.Errorf("C0 at %+v: perm %v gives %v, identity %v", tr, p, v, ref)
+			}
+		}
+		const mu2 = 0.37
+		vm, _ := C0(tr.s[0][1], tr.s[1][2], tr.s[0][2], tr.m2[0], tr.m2[1], tr.m2[2], mu2)
+		L := complex(math.Log(mu2), 0)
+		want := ref.Finite + ref.Pole1*L + ref.Pole2*L*L/2
+		if cmplx.Abs(vm.Finite-want) > 1e-12*size {
+			t.Errorf("C0 μ dependence at %+v: %v, want %v", tr, vm.Finite, want)
+		}
+		bv, err := C0Big(f(tr.s[0][1]), f(tr.s[1][2]), f(tr.s[0][2]), f(tr.m2[0]), f(tr.m2[1]), f(tr.m2[2]), f(1), 64)
+		if err != nil {
+			t.Fatal(err)
+		}
+		b := bv.Value()
+		if cmplx.Abs(b.Finite-ref.Finite)+cmplx.Abs(b.Pole1-ref.Pole1)+cmplx.Abs(b.Pole2-ref.Pole2) > 1e-12*size {
+			t.Errorf("C0 at %+v: float64 %v, big %v", tr, ref, b)
+		}
+	}
+}
