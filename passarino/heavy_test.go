@@ -192,3 +192,31 @@ amplitude tg = loop k { k[al]*k[be] / (k^2 - M^2)^3 }
 		t.Errorf("t4 structure ratio = %v (%s)", ratio, r)
 	}
 }
+
+// TestUVPole checks UV poles against the known one-loop functions: B0 has the UV pole 1/ε,
+// A0(M) the pole M², C0 none, and the UV pole of B1(p²; m0, m1) = −1/(2ε) (Denner 1993, eq.
+// (4.18) with the poles of A0, B0), all times the loop factor i/(16π²); an IR-divergent but
+// UV-finite integral has no UV pole.
+func TestUVPole(t *testing.T) {
+	src := `masses M m
+momenta p q
+amplitude b0 = loop k { 1/((k^2 - m^2)*((k + p)^2 - M^2)) }
+amplitude a0 = loop k { 1/(k^2 - M^2) }
+amplitude c0 = loop k { 1/((k^2 - m^2)*((k + p)^2 - M^2)*((k + q)^2)) }
+amplitude b1 = loop k { k.p/((k^2 - m^2)*((k + p)^2 - M^2)) }
+amplitude ir = loop k { 1/(k^2 * (k+p)^2 * (k+q)^2) }
+`
+	factor := "1/16*I/pi^2"
+	want := map[string]string{
+		"b0": factor, "a0": "M^2/16*I/pi^2", "c0": "0", "b1": "-1/32*I*p.p/pi^2", "ir": "0",
+	}
+	for name, w := range want {
+		got, err := UVPole(amp(t, src, name), []string{"M", "m"})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got.String() != w {
+			t.Errorf("UV pole of %s = %s, want %s", name, got, w)
+		}
+	}
+}

@@ -87,7 +87,7 @@ func ReduceVacuum(e expr.Expr) (expr.Expr, vacuum.Info, error) {
 			return expr.Expr{}, info, fmt.Errorf("ReduceVacuum: %d-loop term; two-loop reduction is not available here", len(t.Loops))
 		}
 		k := t.Loops[0]
-		r, ti, err := reduceVacuumTerm(t, k)
+		r, ti, err := reduceVacuumTerm(t, k, vacuum.OneLoop)
 		if err != nil {
 			return expr.Expr{}, info, err
 		}
@@ -97,7 +97,12 @@ func ReduceVacuum(e expr.Expr) (expr.Expr, vacuum.Info, error) {
 	return expr.Sum(out...), info, nil
 }
 
-func reduceVacuumTerm(t expr.Term, k string) (expr.Expr, vacuum.Info, error) {
+// scalarFunc evaluates the scalar vacuum integral ∫ (k²)^a / Π (k² − M_i²)^{n_i}.
+type scalarFunc func(a int, lines []vacuum.Line) (expr.Expr, vacuum.Info, error)
+
+// reduceVacuumTerm reduces the tensor structure of one term and evaluates its scalar integral
+// with scalar (without the factor i/(16π²)).
+func reduceVacuumTerm(t expr.Term, k string, scalarInt scalarFunc) (expr.Expr, vacuum.Info, error) {
 	var info vacuum.Info
 	// Count the slots of k, and build the term with k replaced by fresh indices.
 	rank := 0
@@ -270,7 +275,7 @@ func reduceVacuumTerm(t expr.Term, k string) (expr.Expr, vacuum.Info, error) {
 	if err != nil {
 		return expr.Expr{}, info, err
 	}
-	scalar, vinfo, err := vacuum.OneLoop(ksq+n, lines)
+	scalar, vinfo, err := scalarInt(ksq+n, lines)
 	if err != nil {
 		return expr.Expr{}, info, err
 	}
