@@ -56,3 +56,28 @@ func benchB0(b *testing.B, physical bool) {
 
 func BenchmarkB0Euclidean(b *testing.B) { benchB0(b, false) }
 func BenchmarkB0Physical(b *testing.B)  { benchB0(b, true) }
+
+func benchD0(b *testing.B, physical bool) {
+	r := rand.New(rand.NewSource(97))
+	var pts []box
+	for len(pts) < 256 {
+		var bx box
+		if physical {
+			bx = randomPhysicalBox(r)
+		} else {
+			bx = randomEuclideanBox(r)
+		}
+		if _, err := d0Of(bx); err == nil {
+			pts = append(pts, bx)
+		}
+	}
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		if _, err := d0Of(pts[i&255]); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkD0Euclidean(b *testing.B) { benchD0(b, false) }
+func BenchmarkD0Physical(b *testing.B)  { benchD0(b, true) }

@@ -208,20 +208,20 @@ func c0Projective(t *tri) (complex128, float64, error) {
 		disc := edgeDisc(t.yy[j][k], t.yy[j][j], t.yy[k][k])
 		beta := l[k] - l[j]
 		pre := P[i] / 2
-		if cmplx.Abs(beta) <= 1e-15*(cmplx.Abs(l[j])+cmplx.Abs(l[k])) {
+		if cabs(beta) <= 1e-15*(cabs(l[j])+cabs(l[k])) {
 			// B_i constant on the edge
 			li := logIntegral(A, t.m2[j], t.m2[k])
 			e := (li - lnFStar) / l[j]
 			sum += pre * e
-			mag += cmplx.Abs(pre) * (cmplx.Abs(li) + cmplx.Abs(lnFStar)) / cmplx.Abs(l[j])
+			mag += l1(pre) * (l1(li) + l1(lnFStar)) / cabs(l[j])
 			continue
 		}
 		t0 := -l[j] / beta
 		e, m := edgeIntegral(A, B, C, disc, t0, fStar, lnFStar)
 		sum += pre * e / beta
-		mag += cmplx.Abs(pre/beta) * m
+		mag += l1(pre/beta) * m
 	}
-	cond := mag / math.Max(cmplx.Abs(sum), 1e-300)
+	cond := mag / math.Max(l1(sum), 1e-300)
 	return sum, cond, nil
 }
 
@@ -284,14 +284,14 @@ func edgeIntegral(A, B, C, disc float64, t0 complex128, fStar float64, lnFStar c
 		cs[k] = t0 - y
 	}
 	for k, y := range roots {
-		near := cmplx.Abs(cs[k]) < 1e-6*(1+cmplx.Abs(y))
+		near := cabs(cs[k]) < 1e-6*(1+cabs(y))
 		if !near || fStar == 0 {
 			continue
 		}
 		var re complex128
 		if len(roots) == 2 {
 			other := cs[1-k]
-			if cmplx.Abs(other) < 1e-6*(1+cmplx.Abs(roots[1-k])) {
+			if cabs(other) < 1e-6*(1+cabs(roots[1-k])) {
 				continue // both roots near t0: keep the direct differences
 			}
 			re = complex(fStar, 0) / (complex(A, 0) * other)
@@ -306,17 +306,27 @@ func edgeIntegral(A, B, C, disc float64, t0 complex128, fStar float64, lnFStar c
 	}
 	var sum complex128
 	mag := 0.0
-	rough := lnLead - lnFStar
-	for k, y := range roots {
-		r, m := rfunC(t0, y, cs[k])
-		sum += r
-		mag += m
-		rough += clog(cs[k])
+	// only the imaginary part of lnLead + Σ ln(t0 − y_k) − ln F* is needed (its real part is 0)
+	roughIm := imag(lnLead) - imag(lnFStar)
+	if len(roots) == 2 && imag(t0) == 0 && roots[1] == cmplx.Conj(roots[0]) && imag(roots[0]) != 0 &&
+		cs[1] == cmplx.Conj(cs[0]) {
+		// complex-conjugate roots and real t0: R(t0, ȳ) = conj R(t0, y)
+		r, m := rfunC(t0, roots[0], cs[0])
+		sum = complex(2*real(r), 0)
+		mag = 2 * m
+		roughIm += arg(cs[0]) + arg(cs[1])
+	} else {
+		for k, y := range roots {
+			r, m := rfunC(t0, y, cs[k])
+			sum += r
+			mag += m
+			roughIm += arg(cs[k])
+		}
 	}
-	if k := math.Round(imag(rough) / (2 * math.Pi)); k != 0 {
+	if k := math.Round(roughIm / (2 * math.Pi)); k != 0 {
 		l := complex(0, 2*math.Pi*k) * lt0(t0)
 		sum += l
-		mag += cmplx.Abs(l)
+		mag += l1(l)
 	}
 	return sum, mag
 }

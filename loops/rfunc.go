@@ -2,7 +2,6 @@ package loops
 
 import (
 	"math"
-	"math/cmplx"
 
 	"loopmatch/expr/specfun"
 )
@@ -31,11 +30,11 @@ func rfun(t0, y complex128) (complex128, float64) { return rfunC(t0, y, t0-y) }
 // rfunC is rfun with c = t0 − y supplied by the caller (computed without cancellation when t0 is
 // close to the root y; see edgeIntegral).
 func rfunC(t0, y, c complex128) (complex128, float64) {
-	ac := cmplx.Abs(c)
-	if math.Max(cmplx.Abs(t0), cmplx.Abs(1-t0)) <= 0.3*ac {
+	ac := cabs(c)
+	if math.Max(cabs(t0), cabs(1-t0)) <= 0.3*ac {
 		return rfunFarY(t0, y, c)
 	}
-	if math.Max(cmplx.Abs(y), cmplx.Abs(1-y)) <= 0.3*ac {
+	if math.Max(cabs(y), cabs(1-y)) <= 0.3*ac {
 		return rfunFarT0(t0, y, c)
 	}
 	return rfunLi2(t0, y, c)
@@ -47,7 +46,7 @@ func lt0(t0 complex128) complex128 {
 		r := real(t0)
 		return complex(math.Log(math.Abs((1-r)/r)), 0)
 	}
-	if cmplx.Abs(t0) > 2 {
+	if cabs(t0) > 2 {
 		return log1p(-1 / t0)
 	}
 	return clog(1-t0) - clog(-t0)
@@ -66,19 +65,19 @@ func rfunFarY(t0, y, c complex128) (complex128, float64) {
 		} else {
 			s += term
 		}
-		if cmplx.Abs(pa)+cmplx.Abs(pb) < 1e-18*(cmplx.Abs(s)+1e-300) {
+		if l1(pa)+l1(pb) < 1e-18*(l1(s)+1e-300) {
 			break
 		}
 		pa *= a
 		pb *= b
 	}
-	mag := cmplx.Abs(s)
+	mag := l1(s)
 	// ln(t−y) − ln(t0−y) = log1p((t−t0)/(t0−y)) + 2πi η, η constant in t; read it at t = 0.
-	eta := math.Round((cmplx.Phase(-y) - cmplx.Phase(c) - cmplx.Phase(1+b)) / (2 * math.Pi))
+	eta := math.Round((arg(-y) - arg(c) - arg(1+b)) / (2 * math.Pi))
 	if eta != 0 {
 		l := complex(0, 2*math.Pi*eta) * lt0(t0)
 		s += l
-		mag += cmplx.Abs(l)
+		mag += l1(l)
 	}
 	return s, mag
 }
@@ -95,8 +94,8 @@ func rfunFarT0(t0, y, c complex128) (complex128, float64) {
 		tb := pb * (lb/k - 1/(k*k))
 		ta := pa * (la/k - 1/(k*k))
 		s -= tb - ta
-		mag += cmplx.Abs(tb) + cmplx.Abs(ta)
-		if cmplx.Abs(tb)+cmplx.Abs(ta) < 1e-18*(cmplx.Abs(s)+1e-300) {
+		mag += l1(tb) + l1(ta)
+		if l1(tb)+l1(ta) < 1e-18*(l1(s)+1e-300) {
 			break
 		}
 		pa *= wa
@@ -107,11 +106,13 @@ func rfunFarT0(t0, y, c complex128) (complex128, float64) {
 
 func rfunLi2(t0, y, c complex128) (complex128, float64) {
 	ic := 1 / c
-	argc := cmplx.Phase(c)
-	// η on a piece, from the arguments only: ln(t−y) − ln c − ln v = 2πi η.
+	argc := math.Atan2(imag(c), real(c))
+	// η on a piece, from the arguments only: ln(t−y) − ln c − ln v = 2πi η with v = (t−y)/c. The
+	// three arguments are taken separately (not arg(t−y) − arg c wrapped by hand): on a cut the
+	// infinitesimal imaginary parts decide, and only the complex division keeps their signs.
 	etaAt := func(t float64) float64 {
 		d := complex(t, 0) - y
-		return math.Round((cmplx.Phase(d) - argc - cmplx.Phase(d*ic)) / (2 * math.Pi))
+		return math.Round((arg(d) - argc - arg(d*ic)) / (2 * math.Pi))
 	}
 	// Split points of the path v(t) = (t − y)/c, t ∈ [0, 1], where it crosses the cut of ln v.
 	// When y is a real root inside the segment, the path runs through v = 0 itself (up to the
@@ -121,7 +122,7 @@ func rfunLi2(t0, y, c complex128) (complex128, float64) {
 	vb := (1 - y) * ic
 	la := specfun.Li2(1 - va)
 	lb := specfun.Li2(1 - vb)
-	mag := cmplx.Abs(la) + cmplx.Abs(lb)
+	mag := l1(la) + l1(lb)
 	tsplit := -1.0
 	var lIn, lOut complex128 // −Li2(1−v) boundary values at the split, from each side
 	yr := real(y)
@@ -142,7 +143,7 @@ func rfunLi2(t0, y, c complex128) (complex128, float64) {
 				}
 				lIn = specfun.Li2Side(complex(1-vc, 0), side)
 				lOut = specfun.Li2Side(complex(1-vc, 0), -side)
-				mag += 2 * cmplx.Abs(lIn)
+				mag += 2 * l1(lIn)
 			}
 		}
 	}
@@ -151,7 +152,7 @@ func rfunLi2(t0, y, c complex128) (complex128, float64) {
 		if eta := etaAt(0.5); eta != 0 {
 			l := complex(0, 2*math.Pi*eta) * lt0(t0)
 			s += l
-			mag += cmplx.Abs(l)
+			mag += l1(l)
 		}
 		return s, mag
 	}
@@ -159,12 +160,12 @@ func rfunLi2(t0, y, c complex128) (complex128, float64) {
 	if eta := etaAt(0.5 * tsplit); eta != 0 {
 		l := complex(0, 2*math.Pi*eta) * clog((complex(tsplit, 0)-t0)/(-t0))
 		s += l
-		mag += cmplx.Abs(l)
+		mag += l1(l)
 	}
 	if eta := etaAt(0.5 * (tsplit + 1)); eta != 0 {
 		l := complex(0, 2*math.Pi*eta) * clog((1-t0)/(complex(tsplit, 0)-t0))
 		s += l
-		mag += cmplx.Abs(l)
+		mag += l1(l)
 	}
 	return s, mag
 }

@@ -5,14 +5,33 @@ import (
 	"math/cmplx"
 )
 
-// clog is the principal complex logarithm.
-func clog(z complex128) complex128 { return cmplx.Log(z) }
+// clog is the principal complex logarithm, ½ ln(x² + y²) + i atan2(y, x) when the squares stay in
+// range (faster than cmplx.Log's scaled hypot; the real part is accurate in absolute terms).
+func clog(z complex128) complex128 {
+	x, y := real(z), imag(z)
+	if m := math.Max(math.Abs(x), math.Abs(y)); m > 1e-150 && m < 1e150 {
+		return complex(0.5*math.Log(x*x+y*y), math.Atan2(y, x))
+	}
+	return cmplx.Log(z)
+}
+
+// cabs is |z| without the scaling of math.Hypot when the squares stay in range.
+func cabs(z complex128) float64 {
+	x, y := real(z), imag(z)
+	if m := math.Max(math.Abs(x), math.Abs(y)); m > 1e-150 && m < 1e150 {
+		return math.Sqrt(x*x + y*y)
+	}
+	return cmplx.Abs(z)
+}
+
+// l1 is |Re z| + |Im z|, a cheap magnitude for cancellation estimates.
+func l1(z complex128) float64 { return math.Abs(real(z)) + math.Abs(imag(z)) }
 
 // log1p returns ln(1+w) accurately for small |w| (principal branch).
 func log1p(w complex128) complex128 {
 	x, y := real(w), imag(w)
 	if math.Abs(x) > 0.5 || math.Abs(y) > 0.5 {
-		return cmplx.Log(1 + w)
+		return clog(1 + w)
 	}
 	return complex(0.5*math.Log1p(x*(2+x)+y*y), math.Atan2(y, 1+x))
 }
@@ -32,3 +51,6 @@ func twoSum(a, b float64) (s, e float64) {
 	e = (a - (s - bb)) + (b - bb)
 	return s, e
 }
+
+// arg is the principal argument of z.
+func arg(z complex128) float64 { return math.Atan2(imag(z), real(z)) }

@@ -101,18 +101,30 @@ func li2Complex(z complex128) complex128 {
 	if x*x+y*y > 1 {
 		// Inversion (Lewin 1981, ch. 1): Li2(z) = −Li2(1/z) − π²/6 − ½ ln²(−z), z ∉ [0, ∞).
 		w := inv(z)
-		l := cmplx.Log(-z)
+		l := clog(-z)
 		return -li2Unit(w) - complex(zeta2, 0) - 0.5*l*l
 	}
 	return li2Unit(z)
 }
 
+// clog is the principal complex logarithm, computed as ½ ln(x² + y²) + i atan2(y, x) when the
+// squares cannot overflow or underflow (faster than cmplx.Log's scaled hypot).
+func clog(z complex128) complex128 {
+	x, y := real(z), imag(z)
+	if m := math.Max(math.Abs(x), math.Abs(y)); m > 1e-150 && m < 1e150 {
+		return complex(0.5*math.Log(x*x+y*y), math.Atan2(y, x))
+	}
+	return cmplx.Log(z)
+}
+
 // li2Unit evaluates Li2 for |z| ≤ 1 (z not real-positive > 1).
 func li2Unit(z complex128) complex128 {
 	if real(z) > 0.5 {
-		// Reflection (Lewin 1981, ch. 1): Li2(z) = π²/6 − ln z ln(1−z) − Li2(1−z).
+		// Reflection (Lewin 1981, ch. 1): Li2(z) = π²/6 − ln z ln(1−z) − Li2(1−z); the series for
+		// Li2(1−z) runs in −ln(1 − (1−z)) = −ln z.
 		v := 1 - z
-		return complex(zeta2, 0) - log1p(z-1)*cmplx.Log(v) - li2Series(v, log1p(-v))
+		lz := log1p(z - 1)
+		return complex(zeta2, 0) - lz*clog(v) - li2Series(v, lz)
 	}
 	return li2Series(z, log1p(-z))
 }
@@ -135,7 +147,7 @@ func li2Series(z, l complex128) complex128 {
 func log1p(w complex128) complex128 {
 	x, y := real(w), imag(w)
 	if math.Abs(x) > 0.5 || math.Abs(y) > 0.5 {
-		return cmplx.Log(1 + w)
+		return clog(1 + w)
 	}
 	// ln|1+w| = ½ ln(1 + 2x + x² + y²)
 	re := 0.5 * math.Log1p(x*(2+x)+y*y)
