@@ -157,38 +157,8 @@ func c0Projective(t *tri) (complex128, float64, error) {
 		return c0DegenerateGram(t)
 	}
 	fStar, _, _ := t.fStar(lam)
-	// P = (a, b, −a−b) with a² s02 + a b (s02 + s12 − s01) + b² s12 = 0.
-	var P [3]complex128
-	qb := sum3(s02, s12, -s01)
-	// The third component also follows from Pᵀ Y P = −(P0 P1 s01 + P1 P2 s12 + P0 P2 s02) = 0; that
-	// form is used when −a−1 (or −1−b) would cancel, i.e. when s01 is small against the others (a
-	// light-like or nearly light-like leg): the small component then keeps its relative accuracy,
-	// which the polar coefficients l = Y P need when some of them are small too.
-	if math.Abs(s02) >= math.Abs(s12) {
-		a := quadRoot(s02, qb, s12, lam)
-		p2 := -a - 1
-		if cmplx.Abs(p2) < 0.5*(cmplx.Abs(a)+1) {
-			if d := complex(s12, 0) + a*complex(s02, 0); d != 0 {
-				p2 = -a * complex(s01, 0) / d
-			}
-		}
-		P = [3]complex128{a, 1, p2}
-	} else {
-		b := quadRoot(s12, qb, s02, lam)
-		p2 := -1 - b
-		if cmplx.Abs(p2) < 0.5*(cmplx.Abs(b)+1) {
-			if d := b*complex(s12, 0) + complex(s02, 0); d != 0 {
-				p2 = -b * complex(s01, 0) / d
-			}
-		}
-		P = [3]complex128{1, b, p2}
-	}
-	var l [3]complex128
-	for i := 0; i < 3; i++ {
-		for k := 0; k < 3; k++ {
-			l[i] += complex(t.y(i, k), 0) * P[k]
-		}
-	}
+	// P = (a, b, −a−b) with a² s02 + a b (s02 + s12 − s01) + b² s12 = 0 (either root).
+	P, l := pointFromRoot(t, quadRoot2(t, lam, false))
 	lnFStar := lnMinusI0(fStar)
 	var sum complex128
 	mag := 0.0
@@ -245,6 +215,53 @@ func (t *tri) fStar(lam float64) (fStar, phiStar float64, ref int) {
 	fb := t.yy[ref][b] - t.yy[ref][ref]
 	phiStar = -(fa*fa*gbb - 2*fa*fb*gab + fb*fb*gaa) / detG
 	return t.m2[ref] + phiStar, phiStar, ref
+}
+
+// quadRoot2 returns a root of the quadratic for the first free component of P (a in (a, 1, ·)
+// when |s02| ≥ |s12|, b in (1, b, ·) otherwise): the larger one by default, the smaller with other.
+func quadRoot2(t *tri, lam float64, other bool) complex128 {
+	s01, s12, s02 := t.s[0][1], t.s[1][2], t.s[0][2]
+	qb := sum3(s02, s12, -s01)
+	A, C := s02, s12
+	if math.Abs(s02) < math.Abs(s12) {
+		A, C = s12, s02
+	}
+	r := quadRoot(A, qb, C, lam)
+	if other && lam >= 0 && r != 0 {
+		return complex(C, 0) / (complex(A, 0) * r) // product of the roots is C/A
+	}
+	return r
+}
+
+// pointFromRoot completes P from the root r (see quadRoot2) and returns P and l = Y P. The third
+// component also follows from Pᵀ Y P = −(P0 P1 s01 + P1 P2 s12 + P0 P2 s02) = 0; that form is used when
+// −r−1 would cancel, i.e. when s01 is small against the others (a light-like or nearly light-like
+// leg): the small component then keeps its relative accuracy, which the polar coefficients l need
+// when some of them are small too.
+func pointFromRoot(t *tri, r complex128) (P, l [3]complex128) {
+	s01, s12, s02 := t.s[0][1], t.s[1][2], t.s[0][2]
+	p2 := -r - 1
+	if math.Abs(s02) >= math.Abs(s12) {
+		if cabs(p2) < 0.5*(cabs(r)+1) {
+			if d := complex(s12, 0) + r*complex(s02, 0); d != 0 {
+				p2 = -r * complex(s01, 0) / d
+			}
+		}
+		P = [3]complex128{r, 1, p2}
+	} else {
+		if cabs(p2) < 0.5*(cabs(r)+1) {
+			if d := r*complex(s12, 0) + complex(s02, 0); d != 0 {
+				p2 = -r * complex(s01, 0) / d
+			}
+		}
+		P = [3]complex128{1, r, p2}
+	}
+	for i := 0; i < 3; i++ {
+		for k := 0; k < 3; k++ {
+			l[i] += complex(t.y(i, k), 0) * P[k]
+		}
+	}
+	return P, l
 }
 
 // quadRoot returns a root of A x² + B x + C = 0 (A ≠ 0) with discriminant lam = B² − 4AC given,

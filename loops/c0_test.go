@@ -2,6 +2,7 @@ package loops
 
 import (
 	"math"
+	"math/big"
 	"math/cmplx"
 	"math/rand"
 	"testing"
@@ -181,6 +182,64 @@ func TestC0ZeroMomentum(t *testing.T) {
 		w := feynC0(&tr, 30, 0)
 		if d := cmplx.Abs(v.Finite - w); d > 1e-14*cmplx.Abs(w) {
 			t.Errorf("C0(0,0,0; %v) = %v, quadrature %v", m, v.Finite, w)
+		}
+	}
+}
+
+// TestC0SpecialPaths checks the paths for special kinematics against independent evaluations:
+// Gauss quadrature for nearly constant F (small momenta, nearly equal masses) against the
+// arbitrary-precision projective formula; collinear momenta (λ(p1², (p2−p1)², p2²) = 0) against
+// the limit of nearby non-collinear points; p1 = 0 (F constant along a direction: the chord
+// path) against the partial-fraction identity C0(0, s, s; m0, m1, M) =
+// [B0(s; m0, M) − B0(s; m1, M)]/(m0² − m1²) and, at m0 = m1, the derivative of B0 in m0²
+// (central difference).
+func TestC0SpecialPaths(t *testing.T) {
+	f := big.NewFloat
+	for _, c := range [][6]float64{
+		{-1e-6, 2e-6, -3e-6, 1, 1, 1}, {1e-4, -2e-4, 1e-4, 4, 4.1, 3.9}, {0.01, 0.02, -0.03, 1, 1.05, 1.1},
+	} {
+		tr := newTri(c[0], c[1], c[2], c[3], c[4], c[5])
+		if tr.variation() > quadKappa {
+			t.Fatalf("%v is not in the quadrature regime", c)
+		}
+		v, _ := c0Of(tr)
+		w, _ := C0Big(f(c[0]), f(c[1]), f(c[2]), f(c[3]), f(c[4]), f(c[5]), f(1), 80)
+		if d := digits(v.Finite, w.Finite.Complex128()); d < 14 {
+			t.Errorf("C0%v = %v, big %v (%.1f digits)", c, v.Finite, w.Finite.Complex128(), d)
+		}
+	}
+	// collinear: p2 = 2 p1, p1² = s → (s, s, 4s)
+	for _, c := range [][4]float64{{1, 1, 2, 3}, {-2, 1, 1.5, 2}, {3, 0.5, 0.7, 0.9}} {
+		s := c[0]
+		v, err := C0(s, s, 4*s, c[1], c[2], c[3], 1)
+		if err != nil {
+			t.Fatal(err)
+		}
+		near, _ := C0(s, s*(1+1e-7), 4*s, c[1], c[2], c[3], 1)
+		if cmplx.Abs(v.Finite-near.Finite) > 1e-6*cmplx.Abs(v.Finite) {
+			t.Errorf("collinear C0(%g,%g,%g; %v) = %v, nearby %v", s, s, 4*s, c[1:], v.Finite, near.Finite)
+		}
+	}
+	// p1 = 0: C0(0, s, s; m0, m1, M)
+	for _, c := range [][4]float64{{-2, 1, 2, 1.5}, {5, 1, 1.2, 1.3}, {-1, 1, 1, 2}, {7, 0.5, 0.5, 1}} {
+		s, m0, m1, M := c[0], c[1]*c[1], c[2]*c[2], c[3]*c[3]
+		v, err := C0(0, s, s, m0, m1, M, 1)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var want complex128
+		if m0 != m1 {
+			a, _ := B0(s, m0, M, 1)
+			b, _ := B0(s, m1, M, 1)
+			want = (a.Finite - b.Finite) / complex(m0-m1, 0)
+		} else {
+			h := 1e-5 * m0
+			a, _ := B0(s, m0+h, M, 1)
+			b, _ := B0(s, m0-h, M, 1)
+			want = (a.Finite - b.Finite) / complex(2*h, 0)
+		}
+		if cmplx.Abs(v.Finite-want) > 1e-8*cmplx.Abs(want) {
+			t.Errorf("C0(0,%g,%g; %v) = %v, partial fractions %v", s, s, c[1:], v.Finite, want)
 		}
 	}
 }
