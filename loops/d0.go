@@ -150,7 +150,8 @@ func selectProjection(bx *box) (projChoice, error) {
 	best := projPoint{score: -1}
 	for a := 0; a < 4; a++ {
 		for c := a + 1; c < 4; c++ {
-			for _, p := range edgePoints(bx, a, c) {
+			pts, np := edgePoints(bx, a, c)
+			for _, p := range pts[:np] {
 				if p.score > best.score {
 					best = p
 				}
@@ -330,39 +331,42 @@ func inverse4(bx *box) ([4][4]float64, bool) {
 
 // edgePoints returns the real points μ e_a + ν e_b of the quadric on the line through vertices
 // a and b (Y_aa μ² + 2 Y_ab μν + Y_bb ν² = 0) whose polar form has one strict sign on the faces
-// used, scored by min|l|/max|l| over those faces.
-func edgePoints(bx *box, a, c int) []projPoint {
+// used, scored by min|l|/max|l| over those faces (at most two; n is their number).
+func edgePoints(bx *box, a, c int) (out [2]projPoint, n int) {
 	A, B, C := bx.y(a, a), bx.y(a, c), bx.y(c, c)
-	var cands [][2]float64 // (μ, ν)
-	disc := B*B - A*C
+	var cands [2][2]float64 // (μ, ν)
+	nc := 0
+	add := func(mu, nu float64) { cands[nc] = [2]float64{mu, nu}; nc++ }
 	switch {
 	case A == 0 && C == 0:
-		cands = append(cands, [2]float64{1, 0}, [2]float64{0, 1})
 		if B == 0 {
-			return nil
+			return out, 0
 		}
+		add(1, 0)
+		add(0, 1)
 	case A == 0:
 		// ν (2B μ + C ν) = 0: ν = 0 (P = e_a) or μ = −C/(2B) ν
-		cands = append(cands, [2]float64{1, 0})
+		add(1, 0)
 		if B != 0 {
-			cands = append(cands, [2]float64{-C / (2 * B), 1})
+			add(-C/(2*B), 1)
 		}
 	case C == 0:
-		cands = append(cands, [2]float64{0, 1})
+		add(0, 1)
 		if B != 0 {
-			cands = append(cands, [2]float64{1, -A / (2 * B)})
+			add(1, -A/(2*B))
 		}
 	default:
+		disc := B*B - A*C
 		if disc <= 0 {
-			return nil
+			return out, 0
 		}
 		// μ/ν roots of A r² + 2B r + C = 0
 		q := -(B + math.Copysign(math.Sqrt(disc), B))
-		cands = append(cands, [2]float64{q / A, 1}, [2]float64{C / q, 1})
+		add(q/A, 1)
+		add(C/q, 1)
 	}
-	var out []projPoint
-	for _, mn := range cands {
-		p := projPoint{a: a, b: c, mu: mn[0], nu: mn[1]}
+	for k := 0; k < nc; k++ {
+		p := projPoint{a: a, b: c, mu: cands[k][0], nu: cands[k][1]}
 		for j := 0; j < 4; j++ {
 			p.l[j] = p.mu*bx.y(j, a) + p.nu*bx.y(j, c)
 		}
@@ -386,9 +390,10 @@ func edgePoints(bx *box, a, c int) []projPoint {
 			continue
 		}
 		p.score = lo / hi
-		out = append(out, p)
+		out[n] = p
+		n++
 	}
-	return out
+	return out, n
 }
 
 const quadKappa4 = 0.05
