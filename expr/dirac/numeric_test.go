@@ -255,6 +255,12 @@ func (p *numPoint) evalNum(t *testing.T, e expr.Expr, free map[string]int) compl
 			t.Fatalf("cannot evaluate %s", term)
 		}
 		lc, cc := termIndexCounts(term)
+		for _, a := range term.Atoms {
+			if c, ok := a.A.(expr.Colour); ok && c.Name == "delta" && (cc[c.Args[0]] > 0 || cc[c.Args[1]] > 0) {
+				cc[c.Args[0]]++
+				cc[c.Args[1]]++
+			}
+		}
 		var dl, dc []string
 		for n, c := range lc {
 			if c >= 2 {
