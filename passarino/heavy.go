@@ -19,6 +19,17 @@ type Small struct {
 	Momenta []string // external momenta counted as order 1
 	Masses  []string // light masses counted as order 1 (their squares as order 2)
 	Order   int      // total order in the small quantities
+	// OnShell lists the momenta of the external legs with their squared masses: a tree-level
+	// propagator without a heavy mass whose momentum is a leg's momentum is not expanded but
+	// evaluated on that leg's mass shell, 1/(P² − m²) = 1/(m_leg² − m²) (the external-leg
+	// diagrams of flavour-changing transitions).
+	OnShell []OnShellMomentum
+}
+
+// OnShellMomentum is the momentum of an external leg and its squared mass.
+type OnShellMomentum struct {
+	Mom expr.Mom
+	M2  expr.RatFunc
 }
 
 func (s Small) isMom(p string) bool  { return slices.Contains(s.Momenta, p) }
@@ -112,8 +123,23 @@ func (s Small) monoDegree(m expr.Mono) int {
 	return n
 }
 
-// Truncate drops every part of e beyond order s.Order in the small quantities. Coefficients
-// must not have light masses in their denominators.
+// denDegree is the degree of a denominator in the light masses; it must be homogeneous (all
+// monomials of the same degree) for the order of a term to be defined.
+func (s Small) denDegree(d expr.Poly) (int, error) {
+	deg := -1
+	for _, pt := range d.Terms() {
+		k := s.monoDegree(pt.Mono)
+		if deg >= 0 && k != deg {
+			return 0, fmt.Errorf("the denominator %s mixes orders in the light masses; the heavy-mass route cannot expand it", d)
+		}
+		deg = k
+	}
+	return max(deg, 0), nil
+}
+
+// Truncate drops every part of e beyond order s.Order in the small quantities. A coefficient may
+// have light masses in its denominator (from on-shell external-leg propagators) if the
+// denominator is homogeneous in them; its order then counts negatively.
 func (s Small) Truncate(e expr.Expr) (expr.Expr, int, error) {
 	var out []expr.Expr
 	dropped := 0
@@ -122,9 +148,11 @@ func (s Small) Truncate(e expr.Expr) (expr.Expr, int, error) {
 		if err != nil {
 			return expr.Expr{}, 0, err
 		}
-		if s.hasAny(expr.RF(t.Coef.Den())) {
-			return expr.Expr{}, 0, fmt.Errorf("the coefficient %s has a light mass in its denominator; the heavy-mass route cannot expand it", t.Coef)
+		dd, err := s.denDegree(t.Coef.Den())
+		if err != nil {
+			return expr.Expr{}, 0, err
 		}
+		deg -= dd
 		var keep []expr.PolyTerm
 		for _, pt := range t.Coef.Num().Terms() {
 			if deg+s.monoDegree(pt.Mono) <= s.Order {
@@ -149,6 +177,28 @@ func (s Small) Truncate(e expr.Expr) (expr.Expr, int, error) {
 		out = append(out, expr.FromTerm(nt))
 	}
 	return expr.Sum(out...), dropped, nil
+}
+
+// lowestDegree is the lowest order of any part of e (0 for zero).
+func (s Small) lowestDegree(e expr.Expr) (int, error) {
+	low, first := 0, true
+	for _, t := range e.Terms() {
+		deg, err := s.termDegree(t)
+		if err != nil {
+			return 0, err
+		}
+		dd, err := s.denDegree(t.Coef.Den())
+		if err != nil {
+			return 0, err
+		}
+		for _, pt := range t.Coef.Num().Terms() {
+			k := deg - dd + s.monoDegree(pt.Mono)
+			if first || k < low {
+				low, first = k, false
+			}
+		}
+	}
+	return low, nil
 }
 
 // truncMul multiplies and truncates.
@@ -210,7 +260,21 @@ func (s Small) expandProp(p expr.Prop, n int, loop string) (expr.Expr, error) {
 		return expr.Expr{}, err
 	}
 	if loop == "" && h.IsZero() {
-		return expr.Expr{}, fmt.Errorf("propagator %s has no heavy mass; a light tree-level propagator cannot be expanded", p.Key())
+		for _, os := range s.OnShell {
+			if os.Mom.Equal(P) || os.Mom.Equal(P.Scale(big.NewRat(-1, 1))) {
+				// 1/(P² − L)^n on the leg's mass shell.
+				d := os.M2.Sub(l)
+				if d.IsZero() {
+					return expr.Expr{}, fmt.Errorf("propagator %s is on its own mass shell (a diagonal external-leg correction needs wave-function renormalisation, not a propagator)", p.Key())
+				}
+				inv, err := d.Pow(-n)
+				if err != nil {
+					return expr.Expr{}, err
+				}
+				return expr.FromRF(inv), nil
+			}
+		}
+		return expr.Expr{}, fmt.Errorf("propagator %s has no heavy mass and its momentum is not an external leg's; a light tree-level propagator cannot be expanded", p.Key())
 	}
 	// δ = 2k·P + P² − L
 	delta := dotMom(P, P).Sub(expr.FromRF(l))
@@ -286,19 +350,49 @@ func (s Small) ExpandProps(e expr.Expr) (expr.Expr, Info, error) {
 			}
 			rest.Atoms = append(rest.Atoms, a)
 		}
-		acc, dropped, err := s.Truncate(expr.FromTerm(rest))
-		if err != nil {
-			return expr.Expr{}, info, err
-		}
-		info.Dropped += dropped
+		// On-shell external-leg propagators bring negative orders (1/m²); expand the others
+		// further by as much, and truncate once the term is complete.
+		var onshell, other []expr.AtomPow
 		for _, pa := range props {
+			if pa.A.(expr.Prop).K.Coef(loop).Sign() == 0 || loop == "" {
+				if h, _, err := s.splitMass(pa.A.(expr.Prop).M2); err == nil && h.IsZero() {
+					onshell = append(onshell, pa)
+					continue
+				}
+			}
+			other = append(other, pa)
+		}
+		acc := expr.FromTerm(rest)
+		for _, pa := range onshell {
 			x, err := s.expandProp(pa.A.(expr.Prop), -pa.Pow, loop)
 			if err != nil {
 				return expr.Expr{}, info, err
 			}
-			if acc, err = s.truncMul(acc, x); err != nil {
+			if acc, err = acc.Mul(x); err != nil {
 				return expr.Expr{}, info, err
 			}
+		}
+		low, err := s.lowestDegree(acc)
+		if err != nil {
+			return expr.Expr{}, info, err
+		}
+		wide := s
+		wide.Order = s.Order - min(low, 0)
+		for _, pa := range other {
+			x, err := wide.expandProp(pa.A.(expr.Prop), -pa.Pow, loop)
+			if err != nil {
+				return expr.Expr{}, info, err
+			}
+			if acc, err = wide.truncMul(acc, x); err != nil {
+				return expr.Expr{}, info, err
+			}
+		}
+		if low >= 0 {
+			var dropped int
+			if acc, dropped, err = s.Truncate(acc); err != nil {
+				return expr.Expr{}, info, err
+			}
+			info.Dropped += dropped
 		}
 		out = append(out, acc)
 	}

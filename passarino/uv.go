@@ -14,8 +14,11 @@ import (
 // of the superficial degree of divergence — reduces the tensors by symmetric integration and
 // keeps the logarithmically divergent part: ∫ (k²)^a/(k²)^n with a − n = −2 has the UV pole 1/ε
 // (in the package's normalisation; with an infrared regulator, ∫ 1/(k² − Λ²)² = 1/ε − ln(Λ²/μ²)),
-// and every other power is scaleless. masses lists the symbols that carry mass dimension.
-func UVPole(e expr.Expr, masses []string) (expr.Expr, error) {
+// and every other power is scaleless. The result may still contain d from the tensor reduction:
+// the residue is its value at d = 4, to be taken after any further d-dimensional algebra.
+// masses lists the symbols that carry mass dimension; onShell lists the external-leg momenta
+// whose tree-level propagators are evaluated on shell (as in Small.OnShell).
+func UVPole(e expr.Expr, masses []string, onShell []OnShellMomentum) (expr.Expr, error) {
 	measure := expr.FromAtom(expr.I, 1).MustMul(expr.FromAtom(expr.Pi, -2)).Scale(expr.RFRat(big.NewRat(1, 16)))
 	var out []expr.Expr
 	for _, t := range e.Terms() {
@@ -36,7 +39,7 @@ func UVPole(e expr.Expr, masses []string) (expr.Expr, error) {
 		}
 		// Expansion order: the degree of divergence on top of the small factors that the
 		// numerator already carries (only the −4 powers of k are kept below).
-		s := Small{Momenta: moms, Masses: masses}
+		s := Small{Momenta: moms, Masses: masses, OnShell: onShell}
 		num, err := s.termDegree(t)
 		if err != nil {
 			return expr.Expr{}, err
@@ -58,8 +61,9 @@ func UVPole(e expr.Expr, masses []string) (expr.Expr, error) {
 			out = append(out, r.MustMul(measure))
 		}
 	}
-	// The pole's residue is the coefficient at d = 4.
-	return expr.Sum(out...).Subst(expr.DimSymbol, expr.RFInt(4))
+	// The pole's residue is the coefficient at d = 4; the caller sets d = 4 after any further
+	// d-dimensional algebra (Dirac matrices) on the result.
+	return expr.Sum(out...), nil
 }
 
 // logDivergent is the UV pole coefficient of ∫ (k²)^a / Π (k² − M_i²)^{n_i} with all M_i = 0:

@@ -41,7 +41,7 @@ var commands map[string]*command
 
 func init() {
 	commands = map[string]*command{}
-	for _, c := range []*command{checkCmd, simplifyCmd, integralCmd, reduceCmd, versionCmd, helpCmd} {
+	for _, c := range []*command{checkCmd, simplifyCmd, integralCmd, reduceCmd, matchCmd, versionCmd, helpCmd} {
 		commands[c.name] = c
 	}
 }

@@ -86,6 +86,8 @@ func (p *Program) ParseExpr(src string) (expr.Expr, error) {
 	if err != nil {
 		return expr.Expr{}, syntaxError("<expr>", err)
 	}
+	p.exprSrc = []byte(src)
+	defer func() { p.exprSrc = nil }()
 	return p.lowerScalar(ast, true)
 }
 
@@ -99,7 +101,7 @@ func ParseFreeExpr(src string) (expr.Expr, error) {
 	if err != nil {
 		return expr.Expr{}, syntaxError("<expr>", err)
 	}
-	p := &Program{File: "<expr>", Decls: map[string]*Decl{}, defines: map[string]*DefineStmt{}, loopSites: map[string]lexer.Position{}}
+	p := &Program{File: "<expr>", Decls: map[string]*Decl{}, defines: map[string]*DefineStmt{}, loopSites: map[string]lexer.Position{}, exprSrc: []byte(src)}
 	var declareAll func(e *Expr) error
 	declareAll = func(e *Expr) error {
 		var err error
@@ -669,7 +671,48 @@ func (l *lowerer) resolveName(name string) string {
 	return name
 }
 
+// spacedCall reports whether a name is separated by whitespace from the "(" that follows it,
+// as in "PR (slash(k) + m)", which then reads as a product rather than a call.
+func (l *lowerer) spacedCall(r *NameRef) bool {
+	src := l.p.src
+	if r.Pos.Filename == "<expr>" {
+		src = l.p.exprSrc
+	}
+	i := r.Pos.Offset + len(r.Name)
+	return i < len(src) && src[i] != '('
+}
+
+// isFunctionName reports whether a call of name has a meaning as a function.
+func (l *lowerer) isFunctionName(name string) bool {
+	if _, ok := functionArity[name]; ok {
+		return true
+	}
+	if _, ok := integralArity[name]; ok {
+		return true
+	}
+	if _, ok := operatorOnly[name]; ok {
+		return true
+	}
+	d, ok := l.p.Decls[name]
+	return ok && d.Kind == KindDefine && len(l.p.defines[name].Params) > 0
+}
+
 func (l *lowerer) ref(r *NameRef) (value, error) {
+	if r.Call != nil && !l.isFunctionName(r.Name) && l.spacedCall(r) {
+		// NAME (x): juxtaposition of a value and a parenthesised factor.
+		if len(r.Call.Groups) != 1 || len(r.Call.Groups[0].Args) != 1 {
+			return value{}, errorf(r.Pos, "%s is not a function; a parenthesised factor after it must be a single expression", r.Name)
+		}
+		a, err := l.ref(&NameRef{Pos: r.Pos, Name: r.Name})
+		if err != nil {
+			return value{}, err
+		}
+		b, err := l.expr(r.Call.Groups[0].Args[0])
+		if err != nil {
+			return value{}, err
+		}
+		return l.mul(a, b, r.Call.Pos)
+	}
 	if b, ok := l.lookup(r.Name); ok && r.Call == nil {
 		if b.val != nil {
 			if r.Index != nil {

@@ -220,3 +220,22 @@ operator O5 = D(al) bar(b) gamma(al) a
 		}
 	}
 }
+
+// TestJuxtapositionAfterName checks that "PR (…)" with a space multiplies, while "PR(…)" and
+// "mF(…)" without one are calls (and errors for names that are not functions).
+func TestJuxtapositionAfterName(t *testing.T) {
+	a, err := Parse("t.lm", []byte(header+"amplitude X = ubar(b) PR (slash(p) + M) u(a)\namplitude Y = ubar(b) PR*(slash(p) + M) u(a)\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	x, _ := a.Amplitude("X")
+	y, _ := a.Amplitude("Y")
+	if !x.Body.Equal(y.Body) {
+		t.Errorf("PR (…) = %s, PR*(…) = %s", x.Body, y.Body)
+	}
+	for _, src := range []string{"amplitude X = ubar(b) PR(slash(p)) u(a)\n", "amplitude X = M(g)\n"} {
+		if _, err := Parse("t.lm", []byte(header+src)); err == nil {
+			t.Errorf("%q accepted", src)
+		}
+	}
+}

@@ -150,7 +150,8 @@ type Program struct {
 	Values     map[string]expr.Expr
 	ValueOrder []string
 	defines    map[string]*DefineStmt
-	src        []byte
+	src        []byte                    // the file's source
+	exprSrc    []byte                    // the source of an expression being parsed by ParseExpr
 	loopSites  map[string]lexer.Position // every loop momentum name and where it was opened
 }
 

@@ -100,19 +100,30 @@ func (k *Kinematics) atom(mask uint8) (e expr.Expr, ok bool, err error) {
 	return e, err == nil, err
 }
 
-// toExpr converts a combination to an expression in the scalar-integral atoms.
-func (k *Kinematics) toExpr(c comb) (expr.Expr, error) {
+// atomEntry is a cached scalar-integral atom; ok is false for a scaleless one.
+type atomEntry struct {
+	e  expr.Expr
+	ok bool
+}
+
+// toExpr converts a combination to an expression in the scalar-integral atoms (r.mu held).
+func (r *Reducer) toExpr(c comb) (expr.Expr, error) {
 	var parts []expr.Expr
 	for mask, x := range c {
 		if x.IsZero() {
 			continue
 		}
-		a, ok, err := k.atom(uint8(mask))
-		if err != nil {
-			return expr.Expr{}, err
+		a, cached := r.atoms[uint8(mask)]
+		if !cached {
+			e, ok, err := r.kin.atom(uint8(mask))
+			if err != nil {
+				return expr.Expr{}, err
+			}
+			a = atomEntry{e, ok}
+			r.atoms[uint8(mask)] = a
 		}
-		if ok {
-			parts = append(parts, a.Scale(x))
+		if a.ok {
+			parts = append(parts, a.e.Scale(x))
 		}
 	}
 	return expr.Sum(parts...), nil

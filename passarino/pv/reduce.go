@@ -3,6 +3,7 @@ package pv
 import (
 	"errors"
 	"fmt"
+	"math/big"
 	"strings"
 	"sync"
 
@@ -22,6 +23,7 @@ type Reducer struct {
 	mu     sync.Mutex
 	memo   map[memoKey]comb
 	frames map[uint8]*frame
+	atoms  map[uint8]atomEntry
 }
 
 // memoKey identifies a coefficient of the sub-integral with the propagators in mask, in that
@@ -41,13 +43,15 @@ type frame struct {
 	m0      expr.RatFunc
 	f       []expr.RatFunc   // f_a = p_a² − m_a² + m0², a = 1 … n (index a−1)
 	zinv    [][]expr.RatFunc // inverse of Z_ab = 2 p_a·p_b when it exists
+	rowSum  []expr.RatFunc   // Σ_b (Z⁻¹)_ab
+	rowF    []expr.RatFunc   // Σ_b (Z⁻¹)_ab f_b
 	zeroP   bool             // n = 1 and p1² = 0: the closed form of zeromom.go applies
 	gramErr error            // set when n ≥ 2 and det Z = 0
 }
 
 // NewReducer returns a reducer for the kinematics k.
 func NewReducer(k *Kinematics) *Reducer {
-	return &Reducer{kin: k, memo: map[memoKey]comb{}, frames: map[uint8]*frame{}}
+	return &Reducer{kin: k, memo: map[memoKey]comb{}, frames: map[uint8]*frame{}, atoms: map[uint8]atomEntry{}}
 }
 
 // Kinematics returns the kinematics the reducer works on.
@@ -65,12 +69,20 @@ func (r *Reducer) Coefficient(idx []int) (expr.Expr, error) {
 		return expr.Expr{}, err
 	}
 	r.mu.Lock()
-	c, err := r.coef(uint8(1<<r.kin.n-1), l)
-	r.mu.Unlock()
+	defer r.mu.Unlock()
+	top := uint8(1<<r.kin.n - 1)
+	fr, err := r.frameOf(top)
+	if err == nil && l.rank() > 0 && fr.gramErr != nil {
+		err = fr.gramErr // every tensor coefficient needs the function's own Gram inverse
+	}
+	var c comb
+	if err == nil {
+		c, err = r.coef(top, l)
+	}
 	if err != nil {
 		return expr.Expr{}, fmt.Errorf("pv: %s: %w", Name(r.kin.n, idx), err)
 	}
-	return r.kin.toExpr(c)
+	return r.toExpr(c)
 }
 
 // Coefficient returns the tensor coefficient T^N_idx of the kinematics k (see
@@ -105,6 +117,15 @@ func (r *Reducer) frameOf(mask uint8) (*frame, error) {
 				return nil, err
 			}
 			fr.zinv = inv
+			for a := range fr.n {
+				sum, sumF := expr.RFInt(0), expr.RFInt(0)
+				for b := range fr.n {
+					sum = sum.Add(inv[a][b])
+					sumF = sumF.Add(inv[a][b].Mul(fr.f[b]))
+				}
+				fr.rowSum = append(fr.rowSum, sum)
+				fr.rowF = append(fr.rowF, sumF)
+			}
 		}
 	}
 	r.frames[mask] = fr
@@ -251,7 +272,9 @@ func (r *Reducer) gramStep(fr *frame, l label) (comb, error) {
 	if err != nil {
 		return comb{}, err
 	}
+	// Σ_k (Z⁻¹)_hk and Σ_k (Z⁻¹)_hk f_k multiply S_β and T_β once.
 	var c comb
+	c = c.addScaled(s, fr.rowSum[h-1].Neg()).addScaled(t, fr.rowF[h-1].Neg())
 	for k := 1; k <= fr.n; k++ {
 		z := fr.zinv[h-1][k-1]
 		if z.IsZero() {
@@ -261,8 +284,7 @@ func (r *Reducer) gramStep(fr *frame, l label) (comb, error) {
 		if err != nil {
 			return comb{}, err
 		}
-		var part comb
-		part = part.addScaled(kk, rat(1, 1)).addScaled(s, rat(-1, 1)).addScaled(t, fr.f[k-1].Neg())
+		c = c.addScaled(kk, z)
 		if b := beta.a[k-1]; b > 0 {
 			up := beta
 			up.a[k-1]--
@@ -271,9 +293,8 @@ func (r *Reducer) gramStep(fr *frame, l label) (comb, error) {
 			if err != nil {
 				return comb{}, err
 			}
-			part = part.addScaled(t00, rat(int64(-2*b), 1))
+			c = c.addScaled(t00, z.Scale(big.NewRat(int64(-2*b), 1)))
 		}
-		c = c.addScaled(part, z)
 	}
 	return c, nil
 }

@@ -1,0 +1,326 @@
+package match
+
+import (
+	"fmt"
+	"slices"
+	"strings"
+
+	"loopmatch/expr"
+	"loopmatch/expr/dirac"
+	"loopmatch/expr/notation"
+	"loopmatch/loops/vacuum"
+	"loopmatch/passarino"
+)
+
+// Coefficient is one Wilson coefficient of a match block.
+type Coefficient struct {
+	Operator string
+	Value    expr.Expr // C_i(μ), finite, MS-bar
+	Pole     expr.Expr // the 1/ε part removed by the MS-bar counterterms of the EFT (infrared poles of the full theory)
+}
+
+// Check is one built-in consistency check.
+type Check struct {
+	Name   string
+	Passed bool
+	Detail string // what was compared; on failure the offending expression
+}
+
+// Result is the outcome of one match block.
+type Result struct {
+	Block        *notation.MatchBlock
+	Coeffs       []Coefficient
+	Checks       []Check
+	Conventions  []string // conventions and scheme the result depends on
+	Kinematics   []string // on-shell substitutions used
+	Notes        []string // scaleless integrals set to zero, evanescent remainders, …
+	Expectations []Check  // comparisons with `expect` lines
+}
+
+// Failed reports whether any check or expectation failed.
+func (r *Result) Failed() bool {
+	for _, c := range append(slices.Clone(r.Checks), r.Expectations...) {
+		if !c.Passed {
+			return true
+		}
+	}
+	return false
+}
+
+// Options tune a match.
+type Options struct {
+	Dirac dirac.Options
+}
+
+// massSymbols lists the declared heavy and light masses.
+func massSymbols(p *notation.Program) []string {
+	return append(p.NamesOf(notation.KindMass), p.NamesOf(notation.KindLight)...)
+}
+
+// smallOf builds the expansion of a match block.
+func smallOf(p *notation.Program, mb *notation.MatchBlock) passarino.Small {
+	s := passarino.Small{Order: mb.Order}
+	for _, l := range p.Legs {
+		m2 := expr.RFInt(0)
+		if l.Mass != "" {
+			m2 = expr.RFVar(l.Mass).Mul(expr.RFVar(l.Mass))
+		}
+		s.OnShell = append(s.OnShell, passarino.OnShellMomentum{Mom: l.Mom, M2: m2})
+	}
+	for _, n := range mb.Expand {
+		if p.Decls[n].Kind == notation.KindLight {
+			s.Masses = append(s.Masses, n)
+		} else {
+			s.Momenta = append(s.Momenta, n)
+		}
+	}
+	return s
+}
+
+// pipeline carries the pieces shared by the steps of a match.
+type pipeline struct {
+	p     *notation.Program
+	mb    *notation.MatchBlock
+	small passarino.Small
+	kin   *Kinematics
+	dkin  dirac.Kinematics
+	opt   Options
+	notes []string
+}
+
+// canonical applies the Dirac algebra, the on-shell kinematics and the truncation.
+func (pl *pipeline) canonical(e expr.Expr) (expr.Expr, error) {
+	s, rep, err := dirac.Simplify(e, pl.dkin, pl.opt.Dirac)
+	if err != nil {
+		return expr.Expr{}, err
+	}
+	for _, ev := range rep.Evanescent {
+		pl.notes = append(pl.notes, fmt.Sprintf("evanescent remainder dropped: %v", ev))
+	}
+	if s, err = pl.kin.Apply(s); err != nil {
+		return expr.Expr{}, err
+	}
+	if pl.mb.HasExpand {
+		s, _, err = pl.small.Truncate(s)
+	}
+	return s, err
+}
+
+// Run executes one match block of p (heavy-mass route).
+func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, error) {
+	if mb.Route != "heavy" {
+		return nil, fmt.Errorf("%s: route %s is not available yet", mb.Pos, mb.Route)
+	}
+	if !mb.HasExpand {
+		return nil, fmt.Errorf("%s: the heavy-mass route needs an expand line (expand p, q to order N)", mb.Pos)
+	}
+	kin, err := NewKinematics(p.Legs)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %v", mb.Pos, err)
+	}
+	pl := &pipeline{p: p, mb: mb, small: smallOf(p, mb), kin: kin, opt: opt}
+	for _, l := range p.Legs {
+		m := expr.RFInt(0) // dirac.Leg takes the mass, not its square
+		if l.Mass != "" {
+			m = expr.RFVar(l.Mass)
+		}
+		pl.dkin.Legs = append(pl.dkin.Legs, dirac.Leg{Name: l.Name, Mom: l.Mom, Mass: m})
+	}
+	res := &Result{Block: mb, Kinematics: kin.Rules()}
+	res.Conventions = []string{
+		fmt.Sprintf("L_eff = N * sum_i C_i Q_i with N = %s; amplitudes are iM", mb.Norm),
+		"metric (+,-,-,-), d = 4 - 2*eps, MS-bar: loop k {…} = mu^(2 eps) (e^gamma_E/(4 pi))^eps ∫ d^dk/(2 pi)^d",
+		"gamma5: NDR (anticommuting), chains in the projector basis",
+		fmt.Sprintf("heavy-mass route: Taylor expansion in %s to order %d; loops in the effective theory are scaleless", strings.Join(mb.Expand, ", "), mb.Order),
+	}
+	if mb.ScaleSet {
+		res.Conventions = append(res.Conventions, fmt.Sprintf("scale: mu = %s", mb.Scale))
+	}
+	// Full-theory amplitude.
+	full := expr.Zero()
+	for _, n := range mb.Amps {
+		a, _ := p.Amplitude(n)
+		full = full.Add(a.Body)
+	}
+	red, info, err := passarino.Heavy(full, pl.small)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %v", mb.Pos, err)
+	}
+	for _, s := range info.Scaleless {
+		pl.notes = append(pl.notes, "scaleless integral set to zero (infrared poles become EFT ultraviolet poles here): "+s)
+	}
+	red, err = pl.canonical(red)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %v", mb.Pos, err)
+	}
+	ser, err := vacuum.ExpandEps(red, 1, p.Positive)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %v", mb.Pos, err)
+	}
+	if !ser.Coef(-2).IsZero() {
+		return nil, fmt.Errorf("%s: the amplitude has a 1/eps^2 pole (%s); one-loop matching expects at most 1/eps", mb.Pos, ser.Coef(-2))
+	}
+	finite0, pole := ser.Coef(0), ser.Coef(-1) // finite0 keeps the symbolic μ
+	finite := finite0
+	if mb.ScaleSet {
+		if finite, err = setScale(finite0, mb.Scale); err != nil {
+			return nil, err
+		}
+	}
+	// Operators: i·N·⟨Q_i⟩.
+	iN := mb.Norm.MustMul(expr.FromAtom(expr.I, 1))
+	basis := make([]expr.Expr, len(mb.Ops))
+	for i, name := range mb.Ops {
+		op := operatorByName(p, name)
+		me, err := p.MatrixElement(op)
+		if err != nil {
+			return nil, err
+		}
+		if me, err = pl.canonical(me); err != nil {
+			return nil, fmt.Errorf("operator %s: %v", name, err)
+		}
+		if basis[i], err = me.Mul(iN); err != nil {
+			return nil, err
+		}
+	}
+	cs, err := Project(finite, basis)
+	if err != nil {
+		return nil, err
+	}
+	cs0 := cs
+	if mb.ScaleSet {
+		if cs0, err = Project(finite0, basis); err != nil {
+			return nil, err
+		}
+	}
+	// Checks. UV poles: large-momentum expansion of the loop terms plus the poles of the tree-level
+	// (counterterm) terms.
+	uv, err := passarino.UVPole(full, massSymbols(p), pl.small.OnShell)
+	if err != nil {
+		return nil, err
+	}
+	if uv, err = pl.canonical(uv); err != nil {
+		return nil, err
+	}
+	if uv, err = uv.Subst(expr.DimSymbol, expr.RFInt(4)); err != nil { // residue at d = 4
+		return nil, err
+	}
+	var tree expr.Expr
+	for _, t := range full.Terms() {
+		if len(t.Loops) == 0 {
+			tree = tree.Add(expr.FromTerm(t))
+		}
+	}
+	treeSer, err := vacuum.ExpandEps(tree, 1, p.Positive)
+	if err != nil {
+		return nil, err
+	}
+	ctPole, err := pl.canonical(treeSer.Coef(-1))
+	if err != nil {
+		return nil, err
+	}
+	uvTotal := uv.Add(ctPole)
+	res.Checks = append(res.Checks, Check{
+		Name:   "no ultraviolet pole survives the counterterms",
+		Passed: uvTotal.IsZero(),
+		Detail: describe("remaining UV pole coefficient of 1/eps", uvTotal),
+	})
+	ir := pole.Sub(uvTotal)
+	irC, irErr := Project(ir, basis)
+	irCheck := Check{Name: "infrared poles of the full theory are EFT counterterms in the declared basis", Passed: irErr == nil}
+	switch {
+	case irErr != nil:
+		irCheck.Detail = irErr.Error()
+	case ir.IsZero():
+		irCheck.Detail = "no infrared poles (no EFT counterterm at this order)"
+	default:
+		var parts []string
+		for i, c := range irC {
+			parts = append(parts, fmt.Sprintf("dC_%s = %s", mb.Ops[i], c))
+		}
+		irCheck.Detail = "EFT counterterms (coefficients of 1/eps): " + strings.Join(parts, "; ")
+	}
+	res.Checks = append(res.Checks, irCheck)
+	// Scale dependence: ∂C/∂ln μ must equal twice the residue of the loop poles.
+	loopPole := pole.Sub(ctPole)
+	predicted, perr := Project(loopPole, basis)
+	for i, c := range cs {
+		coef := Coefficient{Operator: mb.Ops[i], Value: c}
+		if irErr == nil {
+			coef.Pole = irC[i]
+		}
+		res.Coeffs = append(res.Coeffs, coef)
+		ch := Check{Name: fmt.Sprintf("scale dependence of C_%s follows from the poles (RGE)", mb.Ops[i])}
+		if mb.ScaleSet {
+			ch.Detail = "the scale is set to " + mb.Scale.String() + "; the check uses the symbolic mu before that"
+		}
+		got, err := logMuCoefficient(cs0[i])
+		switch {
+		case err != nil:
+			ch.Detail = err.Error()
+		case perr != nil:
+			ch.Detail = "poles not spanned by the basis: " + perr.Error()
+		default:
+			want := predicted[i].Scale(expr.RFInt(2))
+			ch.Passed = got.Sub(want).IsZero()
+			ch.Detail = fmt.Sprintf("dC/dln(mu) = %s; predicted by the poles: %s", got, want)
+		}
+		res.Checks = append(res.Checks, ch)
+	}
+	for _, op := range mb.ExpectOrder {
+		i := slices.Index(mb.Ops, op)
+		diff := cs[i].Sub(mb.Expect[op])
+		res.Expectations = append(res.Expectations, Check{
+			Name:   "C_" + op + " equals the expected " + mb.Expect[op].String(),
+			Passed: diff.IsZero(),
+			Detail: describe("difference", diff),
+		})
+	}
+	res.Notes = pl.notes
+	return res, nil
+}
+
+// logMuCoefficient returns ∂e/∂ln μ, which must be free of μ at one loop.
+func logMuCoefficient(e expr.Expr) (expr.Expr, error) {
+	d, err := e.Derivative("mu")
+	if err != nil {
+		return expr.Expr{}, err
+	}
+	return d.MustMul(expr.Sym("mu")), nil
+}
+
+// setScale substitutes μ = scale (a positive parameter expression) in the finite part,
+// re-splitting the logarithms of μ.
+func setScale(e expr.Expr, scale expr.Expr) (expr.Expr, error) {
+	r, ok := scale.AsRatFunc()
+	if !ok {
+		return expr.Expr{}, fmt.Errorf("scale %s is not a parameter expression", scale)
+	}
+	return e.MapAtoms(func(a expr.Atom) (expr.Expr, bool) {
+		f, ok := a.(expr.Fn)
+		if !ok || f.Name != expr.FnLog || len(f.Args) != 1 || !f.Args[0].Equal(expr.Sym("mu")) {
+			return expr.Expr{}, false
+		}
+		l, err := expr.LogSplit(expr.FromRF(r), 1, func(string) bool { return true })
+		if err != nil {
+			return expr.Expr{}, false
+		}
+		return l, true
+	})
+}
+
+func operatorByName(p *notation.Program, name string) *notation.Operator {
+	for _, o := range p.Operators {
+		if o.Name == name {
+			return o
+		}
+	}
+	return nil
+}
+
+func describe(what string, e expr.Expr) string {
+	if e.IsZero() {
+		return what + ": 0"
+	}
+	return what + ": " + e.String()
+}
