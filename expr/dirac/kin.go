@@ -16,6 +16,10 @@ type Leg struct {
 	Name string
 	Mom  expr.Mom
 	Mass expr.RatFunc
+	// Coloured marks a leg in the fundamental representation (a quark): a chain between
+	// coloured legs carries a colour line even without generators (δ_ij), which Fierz must
+	// rearrange too.
+	Coloured bool
 }
 
 // Kinematics lists the external legs. Every leg is on shell: P² = m², and the Dirac equation
