@@ -90,7 +90,7 @@ func TwoLoop(pow [3]int, m2 [3]expr.RatFunc, num Numerator) (expr.Expr, Info, er
 		if err != nil {
 			return expr.Expr{}, info, err
 		}
-		info.Merge(jinfo)
+		mergeInfo(&info, jinfo)
 		res = res.Add(j.Scale(n[e]))
 	}
 	return res, info, nil
@@ -201,7 +201,7 @@ func factorised(c [3]int, m2 [3]expr.RatFunc) (expr.Expr, Info, error) {
 				if err != nil {
 					return expr.Expr{}, info, err
 				}
-				info.Merge(iinfo)
+				mergeInfo(&info, iinfo)
 				if ik.IsZero() {
 					continue
 				}
@@ -209,7 +209,7 @@ func factorised(c [3]int, m2 [3]expr.RatFunc) (expr.Expr, Info, error) {
 				if err != nil {
 					return expr.Expr{}, info, err
 				}
-				info.Merge(iinfo)
+				mergeInfo(&info, iinfo)
 				prod, err := ik.Mul(il)
 				if err != nil {
 					return expr.Expr{}, info, err
@@ -267,4 +267,14 @@ func (p dpoly) sorted() [][3]int {
 		return 0
 	})
 	return keys
+}
+
+// mergeInfo adds the entries of src that dst does not have yet (the recursion meets the same
+// scaleless integrals many times).
+func mergeInfo(dst *Info, src Info) {
+	for _, s := range src.Scaleless {
+		if !slices.Contains(dst.Scaleless, s) {
+			dst.Scaleless = append(dst.Scaleless, s)
+		}
+	}
 }
