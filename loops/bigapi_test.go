@@ -200,3 +200,46 @@ func TestFloatAgainstBig(t *testing.T) {
 	}
 	t.Logf("worst C0 agreement: %.1f digits", worst)
 }
+
+// TestHierarchiesAgainstBig compares float64 C0 with the arbitrary-precision path at random points
+// with masses from 10⁻³ to 10³ (squared-mass ratios up to 10¹²) and invariants below, near
+// (within 10⁻⁷…10⁻¹ relative) and above their thresholds. Measured over 1500 such points: ≥ 12
+// digits at 99.4%, worst 9.9; the test requires 9.5 digits at 60 points and logs the worst.
+func TestHierarchiesAgainstBig(t *testing.T) {
+	f := big.NewFloat
+	r := rand.New(rand.NewSource(123))
+	lm := func() float64 { return math.Pow(10, 6*r.Float64()-3) }
+	worst := 17.0
+	for i := 0; i < 60; i++ {
+		m := [3]float64{lm(), lm(), lm()}
+		inv := func(a, b int) float64 {
+			th := (m[a] + m[b]) * (m[a] + m[b])
+			switch r.Intn(5) {
+			case 0:
+				return -th * math.Pow(10, 3*r.Float64()-2)
+			case 1:
+				return th * (1 + math.Pow(10, -6*r.Float64()-1)*(2*r.Float64()-1))
+			case 2:
+				return th * r.Float64()
+			case 3:
+				return 0
+			}
+			return th * (1 + 10*r.Float64())
+		}
+		tr := newTri(inv(0, 1), inv(1, 2), inv(0, 2), m[0]*m[0], m[1]*m[1], m[2]*m[2])
+		v, err := c0Of(tr)
+		if err != nil {
+			t.Fatalf("%+v: %v", tr, err)
+		}
+		w, err := C0Big(f(tr.s[0][1]), f(tr.s[1][2]), f(tr.s[0][2]), f(tr.m2[0]), f(tr.m2[1]), f(tr.m2[2]), f(1), 64)
+		if err != nil {
+			t.Fatal(err)
+		}
+		d := digits(v.Finite, w.Finite.Complex128())
+		worst = math.Min(worst, d)
+		if d < 9.5 {
+			t.Errorf("C0 at %+v: float64 %v, big %v (%.1f digits)", tr, v.Finite, w.Finite.Complex128(), d)
+		}
+	}
+	t.Logf("worst agreement at hierarchical points: %.1f digits", worst)
+}

@@ -186,6 +186,13 @@ func (n bnum) c0Projective(t *btri, lam *big.Float) (bc, error) {
 
 func (n bnum) quadRoot(A, B, C, lam *big.Float) bc {
 	w := n.w
+	if A.Sign() == 0 {
+		if B.Sign() == 0 {
+			return n.zero()
+		}
+		r := new(big.Float).SetPrec(w).Quo(C, B)
+		return n.r(r.Neg(r))
+	}
 	if lam.Sign() >= 0 {
 		sq := new(big.Float).SetPrec(w).Sqrt(lam)
 		if B.Sign() < 0 {

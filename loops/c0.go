@@ -17,6 +17,9 @@ type tri struct {
 	m2 [3]float64
 	s  [3][3]float64
 	yy [3][3]float64
+	// fromY marks a triangle whose Cayley matrix is the primary data (a rescaled box face); for
+	// the others differences of Y entries are formed from the masses and invariants.
+	fromY bool
 }
 
 func newTri(s01, s12, s02, m02, m12, m22 float64) tri {
@@ -43,6 +46,7 @@ func (t *tri) fillY() {
 // triFromY builds a triangle from its Cayley matrix; the invariants are derived from it.
 func triFromY(y [3][3]float64) tri {
 	var t tri
+	t.fromY = true
 	t.yy = y
 	for i := 0; i < 3; i++ {
 		t.m2[i] = y[i][i]
@@ -156,7 +160,8 @@ func c0Projective(t *tri) (complex128, float64, error) {
 	if math.Abs(lam) <= 1e-13*sc*sc {
 		return c0DegenerateGram(t)
 	}
-	fStar, _, _ := t.fStar(lam)
+	fStar, phiStar, ref := t.fStar(lam)
+	fStarCond := (math.Abs(t.m2[ref]) + math.Abs(phiStar)) / math.Max(math.Abs(fStar), 1e-300)
 	// P = (a, b, −a−b) with a² s02 + a b (s02 + s12 − s01) + b² s12 = 0 (either root).
 	P, l := pointFromRoot(t, quadRoot2(t, lam, false))
 	lnFStar := lnMinusI0(fStar)
@@ -176,7 +181,16 @@ func c0Projective(t *tri) (complex128, float64, error) {
 		B := 2 * (t.yy[j][k] - t.yy[j][j]) // m_k² − m_j² − s_jk
 		C := t.m2[j]
 		disc := edgeDisc(t.yy[j][k], t.yy[j][j], t.yy[k][k])
-		beta := l[k] - l[j]
+		// β = l_k − l_j = Σ_m P_m (Y_km − Y_jm) = ½ Σ_m P_m (s_jm − s_km) (the masses drop out because
+		// ΣP = 0), formed without subtracting two large l's
+		var beta complex128
+		for m := 0; m < 3; m++ {
+			if t.fromY {
+				beta += P[m] * complex(t.yy[k][m]-t.yy[j][m], 0)
+			} else {
+				beta += P[m] * complex(0.5*(t.s[j][m]-t.s[k][m]), 0)
+			}
+		}
 		pre := P[i] / 2
 		if cabs(beta) <= 1e-15*(cabs(l[j])+cabs(l[k])) {
 			// B_i constant on the edge
@@ -187,7 +201,7 @@ func c0Projective(t *tri) (complex128, float64, error) {
 			continue
 		}
 		t0 := -l[j] / beta
-		e, m := edgeIntegral(A, B, C, disc, t0, fStar, lnFStar)
+		e, m := edgeIntegral(A, B, C, disc, t0, fStar, fStarCond, lnFStar)
 		sum += pre * e / beta
 		mag += l1(pre/beta) * m
 	}
@@ -267,6 +281,13 @@ func pointFromRoot(t *tri, r complex128) (P, l [3]complex128) {
 // quadRoot returns a root of A x² + B x + C = 0 (A ≠ 0) with discriminant lam = B² − 4AC given,
 // complex when lam < 0, computed without cancellation.
 func quadRoot(A, B, C, lam float64) complex128 {
+	if A == 0 {
+		// linear (then λ = B² ≥ 0): the finite root; a root at infinity is the other component
+		if B == 0 {
+			return 0
+		}
+		return complex(-C/B, 0)
+	}
 	if lam >= 0 {
 		q := -0.5 * (B + math.Copysign(math.Sqrt(lam), B))
 		if q == 0 {
@@ -291,7 +312,7 @@ func lnMinusI0(x float64) complex128 {
 // 2πi: t0 lies on the line B = 0 through P and x*, along which F ≡ F* (F(x* + τP) = F(x*) because
 // B(x*) = F(P) = 0), so F(t0) = F*. The same identity gives t0 − y_k = F*/(A (t0 − y_other)) without
 // cancellation when t0 is close to a root (F* small: near-infrared or near-threshold kinematics).
-func edgeIntegral(A, B, C, disc float64, t0 complex128, fStar float64, lnFStar complex128) (complex128, float64) {
+func edgeIntegral(A, B, C, disc float64, t0 complex128, fStar, fStarCond float64, lnFStar complex128) (complex128, float64) {
 	roots, lnLead, ok := quadRootsI0(A, B, C, disc)
 	if !ok {
 		return cmplx.NaN(), math.Inf(1)
@@ -300,26 +321,30 @@ func edgeIntegral(A, B, C, disc float64, t0 complex128, fStar float64, lnFStar c
 	for k, y := range roots {
 		cs[k] = t0 - y
 	}
-	for k, y := range roots {
-		near := cabs(cs[k]) < 1e-6*(1+cabs(y))
-		if !near || fStar == 0 {
-			continue
-		}
-		var re complex128
-		if len(roots) == 2 {
-			other := cs[1-k]
-			if cabs(other) < 1e-6*(1+cabs(roots[1-k])) {
-				continue // both roots near t0: keep the direct differences
+	// Use c_k = F*/(A c_other) (or F*/B) instead of t0 − y_k when its error estimate is smaller:
+	// the direct difference has relative error ~ |t0|/|c_k|, the identity ~ fStarCond + |t0|/|c_other|
+	// (fStarCond: the relative error factor of F* itself).
+	if fStar != 0 {
+		for k := range roots {
+			errDirect := (cabs(t0) + cabs(roots[k])) / math.Max(cabs(cs[k]), 1e-300)
+			var re complex128
+			errID := fStarCond
+			if len(roots) == 2 {
+				other := cs[1-k]
+				errID += (cabs(t0) + cabs(roots[1-k])) / math.Max(cabs(other), 1e-300)
+				re = complex(fStar, 0) / (complex(A, 0) * other)
+			} else {
+				re = complex(fStar/B, 0)
 			}
-			re = complex(fStar, 0) / (complex(A, 0) * other)
-		} else {
-			re = complex(fStar/B, 0)
+			if errID >= errDirect {
+				continue
+			}
+			if imag(t0) == 0 {
+				// keep the infinitesimal imaginary part exactly as the direct difference gives it
+				re = complex(real(re), imag(cs[k]))
+			}
+			cs[k] = re
 		}
-		if imag(t0) == 0 {
-			// keep the infinitesimal imaginary part exactly as the direct difference gives it
-			re = complex(real(re), imag(cs[k]))
-		}
-		cs[k] = re
 	}
 	var sum complex128
 	mag := 0.0

@@ -54,3 +54,11 @@ func twoSum(a, b float64) (s, e float64) {
 
 // arg is the principal argument of z.
 func arg(z complex128) float64 { return math.Atan2(imag(z), real(z)) }
+
+// sum4 is sum3 for four terms.
+func sum4(a, b, c, d float64) float64 {
+	s1, e1 := twoSum(a, b)
+	s2, e2 := twoSum(s1, c)
+	s3, e3 := twoSum(s2, d)
+	return s3 + (e1 + e2 + e3)
+}
