@@ -45,7 +45,7 @@ type Evanescent struct {
 	Same3, Opp3, Same4, Opp4 *big.Rat
 }
 
-func (v Evanescent) check() error { return nil }
+func (v Evanescent) check() error { return nil } // every rational shift is a valid definition
 
 func (v Evanescent) get() (s3, o3, s4, o4 *big.Rat) {
 	def := func(r *big.Rat, d int64) *big.Rat {

@@ -78,7 +78,7 @@ func Trace(el []expr.NC, with expr.Expr, opt Options) (expr.Expr, Report, error)
 			if err != nil {
 				return expr.Expr{}, rep, err
 			}
-			x, err := pre.Mul(tr.Scale(even))
+			x, err := mulScaled(tr.Scale(even), pre)
 			if err != nil {
 				return expr.Expr{}, rep, err
 			}
@@ -89,7 +89,7 @@ func Trace(el []expr.NC, with expr.Expr, opt Options) (expr.Expr, Report, error)
 			if err != nil {
 				return expr.Expr{}, rep, err
 			}
-			x, err := pre.Mul(tr.Scale(g5))
+			x, err := mulScaled(tr.Scale(g5), pre)
 			if err != nil {
 				return expr.Expr{}, rep, err
 			}
@@ -97,7 +97,7 @@ func Trace(el []expr.NC, with expr.Expr, opt Options) (expr.Expr, Report, error)
 			odd = odd || !x.IsZero()
 		}
 	}
-	out, err := expr.Sum(parts...).Mul(with)
+	out, err := mulScaled(expr.Sum(parts...), with)
 	if err != nil {
 		return expr.Expr{}, rep, err
 	}
@@ -111,6 +111,14 @@ func Trace(el []expr.NC, with expr.Expr, opt Options) (expr.Expr, Report, error)
 		}
 	}
 	return out, rep, nil
+}
+
+// mulScaled is a·b, by scaling when b is a rational function (no renormalisation of a's terms).
+func mulScaled(a, b expr.Expr) (expr.Expr, error) {
+	if r, ok := b.AsRatFunc(); ok {
+		return a.Scale(r), nil
+	}
+	return a.Mul(b)
 }
 
 func iAtom(i bool) []expr.AtomPow {
