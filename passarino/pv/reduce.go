@@ -201,12 +201,14 @@ func (r *Reducer) coef(mask uint8, l label) (comb, error) {
 }
 
 // metricStep computes a coefficient with j ≥ 1 pairs of 0 from the contraction of the tensor
-// integral with the metric (docs/PASSARINO.md, eq. (M)):
+// integral with the metric, q² = N0 + m0² (docs/PASSARINO.md, eq. (M)):
 //
-//	2(d + P − N − 1) T_{00 α} = 2 S_α + 2 m0² T_α − Σ_k [K^(k)_{α+k} − S_{α+k} − f_k T_{α+k}],
+//	2(d + P − N − 1) T_{00 α} = 2 m0² T_α + S_α + Σ_k f_k T_{α+k},
 //
-// where α stands for the remaining indices (j − 1 pairs and the momenta), P is the rank, S is
-// the sub-integral without N0 and K^(k) the one without N_k, both in this frame's basis.
+// where α stands for the remaining indices (j − 1 pairs and the momenta), P is the rank and S
+// the sub-integral without N0 in this frame's basis. (The contraction alone gives
+// 2S_α − Σ_k [K^(k)_{α+k} − S_{α+k}] in place of S_α; K^(k) has no component along p_k, and
+// the shift invariance of S gives Σ_k S_{α+k} = −S_α.)
 func (r *Reducer) metricStep(fr *frame, l label) (comb, error) {
 	p := l.rank()
 	lo := l
@@ -220,23 +222,15 @@ func (r *Reducer) metricStep(fr *frame, l label) (comb, error) {
 		return comb{}, err
 	}
 	var c comb
-	c = c.addScaled(s, rat(2, 1)).addScaled(t, fr.m0.Scale(bigTwo))
+	c = c.addScaled(s, rat(1, 1)).addScaled(t, fr.m0.Scale(bigTwo))
 	for k := 1; k <= fr.n; k++ {
 		up := lo
 		up.a[k-1]++
-		kk, err := r.cancelK(fr, k, up)
-		if err != nil {
-			return comb{}, err
-		}
-		sk, err := r.cancelRef(fr, up)
-		if err != nil {
-			return comb{}, err
-		}
 		tk, err := r.coef(fr.mask, up)
 		if err != nil {
 			return comb{}, err
 		}
-		c = c.addScaled(kk, rat(-1, 1)).addScaled(sk, rat(1, 1)).addScaled(tk, fr.f[k-1])
+		c = c.addScaled(tk, fr.f[k-1])
 	}
 	// 2(d + P − N − 1) with N = n + 1
 	den := expr.RFVar(expr.DimSymbol).Add(rat(int64(p-fr.n-2), 1)).Scale(bigTwo)
