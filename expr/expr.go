@@ -695,3 +695,20 @@ func Integrate(e Expr, moms ...string) (Expr, error) {
 	}
 	return collect(ts), nil
 }
+
+// MapCoef replaces every coefficient r by f(r) (atoms unchanged).
+func (e Expr) MapCoef(f func(RatFunc) (RatFunc, error)) (Expr, error) {
+	ts := make([]Term, 0, len(e.terms))
+	for _, t := range e.terms {
+		c, err := f(t.Coef)
+		if err != nil {
+			return Expr{}, err
+		}
+		if c.IsZero() {
+			continue
+		}
+		t.Coef = c.fix()
+		ts = append(ts, t)
+	}
+	return Expr{terms: ts}, nil
+}

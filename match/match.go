@@ -16,6 +16,7 @@ import (
 type Coefficient struct {
 	Operator string
 	Value    expr.Expr // C_i(μ), finite, MS-bar
+	InRatios expr.Expr // Value with the ratios of the match block substituted (equal to Value without ratios)
 	Pole     expr.Expr // the 1/ε part removed by the MS-bar counterterms of the EFT (infrared poles of the full theory)
 }
 
@@ -245,7 +246,12 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 	loopPole := pole.Sub(ctPole)
 	predicted, perr := Project(loopPole, basis)
 	for i, c := range cs {
-		coef := Coefficient{Operator: mb.Ops[i], Value: c}
+		coef := Coefficient{Operator: mb.Ops[i], Value: c, InRatios: c}
+		for _, r := range mb.Ratios {
+			if coef.InRatios, err = applyRatio(coef.InRatios, r); err != nil {
+				return nil, err
+			}
+		}
 		if irErr == nil {
 			coef.Pole = irC[i]
 		}

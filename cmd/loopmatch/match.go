@@ -194,6 +194,28 @@ func runMatch(args []string, out, errOut io.Writer) int {
 	return code
 }
 
+// prettyLines prints a sum with factored coefficients, one term per line.
+func prettyLines(e expr.Expr, indent string) string {
+	if e.IsZero() {
+		return indent + "  0"
+	}
+	var sb strings.Builder
+	for i, t := range e.Terms() {
+		s := expr.FromTerm(t).Pretty()
+		sign := "+ "
+		if strings.HasPrefix(s, "-") {
+			sign, s = "- ", s[1:]
+		} else if i == 0 {
+			sign = "  "
+		}
+		if i > 0 {
+			sb.WriteString("\n")
+		}
+		sb.WriteString(indent + sign + s)
+	}
+	return sb.String()
+}
+
 func passWord(ok bool) string {
 	if ok {
 		return "passed"
@@ -218,8 +240,15 @@ func writeMatchText(w io.Writer, p *notation.Program, rs []matchOut) {
 			scale = mb.Scale.String()
 		}
 		fmt.Fprintf(w, "Wilson coefficients at mu = %s\n", scale)
+		var ratios []string
+		for _, ra := range mb.Ratios {
+			ratios = append(ratios, fmt.Sprintf("%s = %s^2/%s^2", ra.Name, ra.Num, ra.Den))
+		}
+		if len(ratios) > 0 {
+			fmt.Fprintf(w, "  (with %s)\n", strings.Join(ratios, ", "))
+		}
 		for _, c := range r.Coeffs {
-			fmt.Fprintf(w, "  C_%s =\n%s\n", c.Operator, termLines(c.Value, "    "))
+			fmt.Fprintf(w, "  C_%s =\n%s\n", c.Operator, prettyLines(c.InRatios, "    "))
 		}
 		if mo.numErr != nil {
 			fmt.Fprintf(w, "numerical values: not available (%v)\n", mo.numErr)
@@ -255,7 +284,7 @@ func writeMatchLaTeX(w io.Writer, p *notation.Program, rs []matchOut) {
 			if i == len(r.Coeffs)-1 {
 				sep = ""
 			}
-			fmt.Fprintf(w, "  C_{\\mathrm{%s}} &= %s%s\n", strings.ReplaceAll(c.Operator, "_", `\_`), c.Value.LaTeX(), sep)
+			fmt.Fprintf(w, "  C_{\\mathrm{%s}} &= %s%s\n", strings.ReplaceAll(c.Operator, "_", `\_`), c.InRatios.LaTeX(), sep)
 		}
 		fmt.Fprintln(w, "\\end{align}")
 	}
@@ -284,7 +313,7 @@ func writeMatchJSON(w io.Writer, p *notation.Program, rs []matchOut) {
 		r := mo.res
 		b := jblock{Amplitudes: r.Block.Amps, Operators: r.Block.Ops, Conventions: r.Conventions, Kinematics: r.Kinematics, Notes: r.Notes}
 		for i, c := range r.Coeffs {
-			m := map[string]any{"operator": c.Operator, "text": c.Value.String(), "latex": c.Value.LaTeX()}
+			m := map[string]any{"operator": c.Operator, "text": c.Value.String(), "latex": c.Value.LaTeX(), "text_in_ratios": c.InRatios.String()}
 			if mo.numErr == nil && i < len(mo.numbers) {
 				m["value"] = [2]float64{real(mo.numbers[i]), imag(mo.numbers[i])}
 			}

@@ -14,7 +14,7 @@ import (
 var keywords = []string{
 	"couplings", "complex", "masses", "light", "index", "momenta", "symbols", "gauge", "colour",
 	"adjoint", "external", "amplitude", "define", "counterterm", "operator", "match", "loop",
-	"normalization", "expand", "scheme", "scale", "expect", "route", "anomalous", "row", "values",
+	"normalization", "expand", "scheme", "scale", "expect", "route", "ratio", "anomalous", "row", "values",
 }
 
 func keywordPattern() string {
@@ -170,6 +170,7 @@ type MatchLine struct {
 	Scale  *Assign     `parser:"| \"scale\" @@"`
 	Expect *Assign     `parser:"| \"expect\" @@"`
 	Route  *Name       `parser:"| \"route\" @@"`
+	Ratio  *Assign     `parser:"| \"ratio\" @@"`
 }
 
 // ExpandLine is "expand p, q, m1 to order 2".

@@ -135,7 +135,13 @@ type MatchBlock struct {
 	Expect      map[string]expr.Expr
 	ExpectOrder []string
 	Route       string
+	Ratios      []Ratio
 	Pos         Pos
+}
+
+// Ratio is "ratio x = M1^2/M2^2": results are also written with M1² = x·M2².
+type Ratio struct {
+	Name, Num, Den string
 }
 
 // Program is a parsed and validated .lm file.
@@ -809,6 +815,13 @@ func (p *Program) match(m *MatchStmt) error {
 			}
 			mb.Expect[op] = v
 			mb.ExpectOrder = append(mb.ExpectOrder, op)
+		case l.Ratio != nil:
+			what = "ratio " + l.Ratio.Name
+			r, err := p.ratio(l.Ratio)
+			if err != nil {
+				return err
+			}
+			mb.Ratios = append(mb.Ratios, r)
 		case l.Route != nil:
 			what = "route"
 			if l.Route.Value != "heavy" && l.Route.Value != "general" {
@@ -823,6 +836,35 @@ func (p *Program) match(m *MatchStmt) error {
 	}
 	p.Matches = append(p.Matches, mb)
 	return nil
+}
+
+// ratio validates "ratio x = M1^2/M2^2" with two declared masses and a new name.
+func (p *Program) ratio(a *Assign) (Ratio, error) {
+	if _, ok := p.Decls[a.Name]; ok {
+		return Ratio{}, errorf(a.Pos, "ratio: %s is already declared; choose a new name", a.Name)
+	}
+	if _, ok := builtins[a.Name]; ok {
+		return Ratio{}, errorf(a.Pos, "ratio: %s is a built-in name", a.Name)
+	}
+	v, err := p.lowerScalar(a.Value, false)
+	if err != nil {
+		return Ratio{}, err
+	}
+	r, ok := v.AsRatFunc()
+	bad := errorf(a.Value.Pos, "ratio: expected the ratio of two squared masses, e.g. mF^2/mS^2, found %s", v)
+	if !ok || r.Num().Len() != 1 || r.Den().Len() != 1 {
+		return Ratio{}, bad
+	}
+	nt, dt := r.Num().Terms()[0], r.Den().Terms()[0]
+	if nt.Coef.Cmp(big.NewRat(1, 1)) != 0 || len(nt.Mono) != 1 || len(dt.Mono) != 1 || nt.Mono[0].Exp != 2 || dt.Mono[0].Exp != 2 {
+		return Ratio{}, bad
+	}
+	for _, m := range []string{nt.Mono[0].Var, dt.Mono[0].Var} {
+		if d, ok := p.Decls[m]; !ok || (d.Kind != KindMass && d.Kind != KindLight) {
+			return Ratio{}, bad
+		}
+	}
+	return Ratio{Name: a.Name, Num: nt.Mono[0].Var, Den: dt.Mono[0].Var}, nil
 }
 
 func (p *Program) anomalous(a *AnomalousStmt) error {

@@ -1,0 +1,186 @@
+package expr
+
+import (
+	"math/big"
+	"slices"
+	"strings"
+)
+
+// This file writes polynomials as products of square-free factors (Yun's algorithm, D.Y.Y.
+// Yun, Proc. SYMSAC 1976, 26), for display: (x^3 - 3*x^2 + 3*x - 1) prints as (x - 1)^3.
+
+// FactorPow is a polynomial factor with its multiplicity.
+type FactorPow struct {
+	P   Poly
+	Pow int
+}
+
+// SquareFree writes p = c · Π P_i^{n_i} with c a rational constant and the P_i square-free,
+// primitive, pairwise coprime, with positive leading coefficients; monomial factors come first.
+func SquareFree(p Poly) (*big.Rat, []FactorPow) {
+	if p.IsZero() {
+		return new(big.Rat), nil
+	}
+	c, pp := p.PrimitiveZ()
+	var out []FactorPow
+	// Monomial content.
+	if m := pp.monoGCDPoly(); len(m) > 0 {
+		for _, vp := range m {
+			out = append(out, FactorPow{PolyVar(vp.Var), vp.Exp})
+		}
+		pp, _ = pp.DivExact(PolyMono(ratOne, m))
+	}
+	out = append(out, squareFreeRec(pp)...)
+	// Merge equal factors and sort for a stable display.
+	merged := map[string]int{}
+	polys := map[string]Poly{}
+	for _, f := range out {
+		if f.P.IsConst() {
+			continue
+		}
+		k := f.P.String()
+		merged[k] += f.Pow
+		polys[k] = f.P
+	}
+	out = out[:0]
+	for k, n := range merged {
+		out = append(out, FactorPow{polys[k], n})
+	}
+	slices.SortFunc(out, func(a, b FactorPow) int {
+		if a.P.Len() != b.P.Len() {
+			return a.P.Len() - b.P.Len()
+		}
+		return strings.Compare(a.P.String(), b.P.String())
+	})
+	return c, out
+}
+
+// squareFreeRec decomposes a primitive polynomial without monomial content.
+func squareFreeRec(p Poly) []FactorPow {
+	vars := p.Vars()
+	if len(vars) == 0 {
+		return nil
+	}
+	v := vars[0]
+	// Content in v (a polynomial in the other variables) is decomposed separately.
+	zc, zp := contentIn(toZ(p), v)
+	content, prim := zc.toPoly(), zp.toPoly()
+	out := squareFreeRec(content)
+	// Yun's algorithm in v on the primitive part.
+	f := prim
+	df := f.Derivative(v)
+	a0 := GCD(f, df)
+	b, _ := f.DivExact(a0)
+	c, _ := df.DivExact(a0)
+	d := c.Sub(b.Derivative(v))
+	for i := 1; !b.IsConst(); i++ {
+		a := GCD(b, d)
+		if !a.IsConst() {
+			_, ap := a.PrimitiveZ()
+			out = append(out, FactorPow{ap, i})
+		}
+		b, _ = b.DivExact(a)
+		c, _ = d.DivExact(a)
+		d = c.Sub(b.Derivative(v))
+		if i > 64 {
+			break
+		}
+	}
+	return out
+}
+
+// Pretty prints r with its numerator and denominator as products of square-free factors, for
+// reports: "-(x^2 - 5*x - 2)/(24*(x - 1)^3)". It is not the canonical text (which the parser reads
+// back to the same value as well, but expanded).
+func (r RatFunc) Pretty() string {
+	cn, fn := SquareFree(r.Num())
+	cd, fd := SquareFree(r.Den())
+	c := new(big.Rat).Quo(cn, cd)
+	sign := ""
+	if c.Sign() < 0 {
+		sign = "-"
+		c.Neg(c)
+	}
+	num := productText(c.Num(), fn)
+	den := productText(c.Denom(), fd)
+	if den == "1" {
+		return sign + num
+	}
+	if strings.ContainsAny(num, "*+- ") && !(strings.HasPrefix(num, "(") && strings.Count(num, "(") == 1 && strings.HasSuffix(num, ")")) {
+		num = "(" + num + ")"
+	}
+	if strings.ContainsAny(den, "*+- ^") {
+		den = "(" + den + ")"
+	}
+	return sign + num + "/" + den
+}
+
+func productText(k *big.Int, fs []FactorPow) string {
+	var parts []string
+	if !(k.IsInt64() && k.Int64() == 1) || len(fs) == 0 {
+		parts = append(parts, k.String())
+	}
+	for _, f := range fs {
+		s := f.P.String()
+		if f.P.Len() > 1 || len(fs) > 1 && f.Pow > 1 && strings.ContainsAny(s, "*") {
+			s = "(" + s + ")"
+		}
+		if f.Pow > 1 {
+			s += "^" + itoa(f.Pow)
+		}
+		parts = append(parts, s)
+	}
+	return strings.Join(parts, "*")
+}
+
+func itoa(n int) string { return big.NewInt(int64(n)).String() }
+
+// Pretty prints e with every coefficient in factored form, one term after the other.
+func (e Expr) Pretty() string {
+	if len(e.terms) == 0 {
+		return "0"
+	}
+	var sb strings.Builder
+	for i, t := range e.terms {
+		s := t.prettyText()
+		switch {
+		case i == 0:
+			sb.WriteString(s)
+		case strings.HasPrefix(s, "-"):
+			sb.WriteString(" - " + s[1:])
+		default:
+			sb.WriteString(" + " + s)
+		}
+	}
+	return sb.String()
+}
+
+func (t Term) prettyText() string {
+	var atoms []string
+	for _, a := range t.Atoms {
+		if a.Pow > 0 {
+			atoms = append(atoms, atomText(a.A, a.Pow))
+		} else {
+			atoms = append(atoms, "1/"+atomText(a.A, -a.Pow))
+		}
+	}
+	c := t.Coef.Pretty()
+	if len(atoms) == 0 {
+		return c
+	}
+	neg := strings.HasPrefix(c, "-")
+	if neg {
+		c = c[1:]
+	}
+	out := strings.Join(atoms, "*")
+	if c != "1" {
+		if strings.ContainsAny(c, "+ ") && !strings.HasPrefix(c, "(") {
+			c = "(" + c + ")"
+		}
+		out = c + "*" + out
+	}
+	if neg {
+		out = "-" + out
+	}
+	return out
+}
