@@ -9,7 +9,9 @@ import (
 
 // Contraction identities in d dimensions: M.E. Peskin, D.V. Schroeder, An Introduction to
 // Quantum Field Theory, appendix A.3 (d-dimensional forms, eq. (A.52)–(A.53) there) and
-// G. 't Hooft, M. Veltman, Nucl. Phys. B44 (1972) 189. Each is checked exactly in d
+// G. 't Hooft, M. Veltman, Nucl. Phys. B44 (1972) 189 (the P&S equation numbers in this
+// package's tests are quoted from memory; every identity is verified numerically below, which
+// does not depend on them). Each is checked exactly in d
 // dimensions and, at d = 4, numerically against explicit Dirac matrices (the unsimplified
 // left side evaluated with matrices against the simplified result).
 func TestContractionIdentities(t *testing.T) {
