@@ -347,3 +347,18 @@ func TestC0InfraredRelabelling(t *testing.T) {
 		}
 	}
 }
+
+// TestC0MasslessLimit checks the massless limit of the collinear triangles: with M² → 0 (al, be
+// fixed away from 0) C0(0, s12, s02; 0, 0, M) tends to the three-massless-line result, and the
+// poles do not change.
+func TestC0MasslessLimit(t *testing.T) {
+	for _, c := range [][2]float64{{-2, -3}, {-0.5, 4}, {3, 5}} {
+		m0, _ := C0(0, c[0], c[1], 0, 0, 0, 1)
+		for _, M2 := range []float64{1e-8, 1e-12} {
+			v, _ := C0(0, c[0], c[1], 0, 0, M2, 1)
+			if cmplx.Abs(v.Pole1-m0.Pole1) > 1e-6 || cmplx.Abs(v.Finite-m0.Finite) > 1e-5 || v.Pole2 != m0.Pole2 {
+				t.Errorf("C0(0,%g,%g; 0,0,M²=%g) = %v, massless %v", c[0], c[1], M2, v, m0)
+			}
+		}
+	}
+}
