@@ -119,13 +119,17 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 	if err != nil {
 		return nil, fmt.Errorf("%s: %v", mb.Pos, err)
 	}
+	if opt.Dirac.Dummies == nil {
+		opt.Dirac.Dummies = p.NamesOf(notation.KindIndex)
+		opt.Dirac.ColourDummies = p.NamesOf(notation.KindAdjoint)
+	}
 	pl := &pipeline{p: p, mb: mb, small: smallOf(p, mb), kin: kin, opt: opt}
 	for _, l := range p.Legs {
 		m := expr.RFInt(0) // dirac.Leg takes the mass, not its square
 		if l.Mass != "" {
 			m = expr.RFVar(l.Mass)
 		}
-		pl.dkin.Legs = append(pl.dkin.Legs, dirac.Leg{Name: l.Name, Mom: l.Mom, Mass: m})
+		pl.dkin.Legs = append(pl.dkin.Legs, dirac.Leg{Name: l.Name, Mom: l.Mom, Mass: m, Coloured: l.Colour != ""})
 	}
 	res := &Result{Block: mb, Kinematics: kin.Rules()}
 	res.Conventions = []string{

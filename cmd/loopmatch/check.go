@@ -10,6 +10,7 @@ import (
 	"strings"
 
 	"loopmatch/expr"
+	"loopmatch/expr/dirac"
 	"loopmatch/expr/notation"
 )
 
@@ -18,8 +19,8 @@ var checkCmd = &command{
 	summary: "parse and validate a .lm file and print its amplitudes in canonical form",
 	usage:   "FILE [--format text|latex|json]",
 	help: `check reads a .lm file, reports the first error with file:line:col, and otherwise prints
-the declarations, external legs, each amplitude in canonical form (one term per line),
-the operators and the match blocks.`,
+the declarations, external legs, each amplitude in canonical form (one term per line, Dirac
+chains simplified: NDR, on-shell external legs), the operators and the match blocks.`,
 }
 
 func checkFlags() (*flag.FlagSet, *format) {
@@ -49,6 +50,15 @@ func runCheck(args []string, out, errOut io.Writer) int {
 		fmt.Fprintln(errOut, err)
 		return exitBadInput
 	}
+	// Dirac and colour algebra on every amplitude (NDR, on-shell legs).
+	for _, a := range p.Amplitudes {
+		s, err := simplifyChains(p, a.Body)
+		if err != nil {
+			fmt.Fprintf(errOut, "%s: amplitude %s: %v\n", a.Pos, a.Name, err)
+			return exitBadInput
+		}
+		a.Body = s
+	}
 	switch f.value {
 	case "json":
 		writeCheckJSON(out, p)
@@ -58,6 +68,27 @@ func runCheck(args []string, out, errOut io.Writer) int {
 		writeCheckText(out, p)
 	}
 	return exitOK
+}
+
+// diracKinematics describes the file's legs for the Dirac algebra.
+func diracKinematics(p *notation.Program) dirac.Kinematics {
+	var k dirac.Kinematics
+	for _, l := range p.Legs {
+		m := expr.RFInt(0)
+		if l.Mass != "" {
+			m = expr.RFVar(l.Mass)
+		}
+		k.Legs = append(k.Legs, dirac.Leg{Name: l.Name, Mom: l.Mom, Mass: m, Coloured: l.Colour != ""})
+	}
+	return k
+}
+
+// simplifyChains brings the chains of e to the canonical form of the Dirac algebra, using the
+// file's declared indices as names for contracted pairs.
+func simplifyChains(p *notation.Program, e expr.Expr) (expr.Expr, error) {
+	opt := dirac.Options{Dummies: p.NamesOf(notation.KindIndex), ColourDummies: p.NamesOf(notation.KindAdjoint)}
+	s, _, err := dirac.Simplify(e, diracKinematics(p), opt)
+	return s, err
 }
 
 // loadProgram reads a .lm file and returns a positioned error on failure.
