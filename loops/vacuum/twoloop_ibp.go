@@ -29,11 +29,13 @@ import (
 // power N: a recursion that ends at J(1, 1, 1) or at integrals with a non-positive power, which
 // factorise into one-loop integrals.
 //
-// At the seed (1, 1, 1) the seven equations in (u1, u2, u3, J(1, 1, 1)) have rank 3 in general,
-// and J(1, 1, 1) is the master Sun. Where they have rank 4, J(1, 1, 1) itself is a combination of
-// tadpoles: this happens exactly when the Källén function λ²(m1², m2², m3²) vanishes (threshold
-// and pseudo-threshold masses such as (m, m, 0) or (m1, m2, m1 + m2)), where the determinant of the
-// (u_p, u_q) block, −λ², vanishes.
+// The determinant of the (u_p, u_q) block of the rows (p, q) and (q, p) is −λ², λ² the Källén
+// function of the squared masses. Where λ² = 0 (thresholds m3 = m1 + m2 and pseudo-thresholds
+// such as (m, m, 0)) the matrix has rank 2. The left null vectors c of the matrix remove the
+// raised integrals: Σ_row c_row rhs_row(a) = 0 relates integrals of the seed's own total power.
+// At the seed (1, 1, 1) these relations decide whether J(1, 1, 1) is the master Sun (no relation
+// involves it: λ² ≠ 0) or a combination of tadpoles (λ² = 0); at λ² = 0 they determine every
+// total power without raising (solveLevel).
 
 // row index 0…5: ordered pairs of lines; 6: the homogeneity relation.
 var rowPairs = [6][2]int{{0, 1}, {0, 2}, {1, 0}, {1, 2}, {2, 0}, {2, 1}}
@@ -105,23 +107,6 @@ func (r *reducer) rowCoef(row int) [3]expr.RatFunc {
 	c[p] = r.x[p].Scale(ratInt(-2))
 	c[q] = r.gram(p, q).Neg()
 	return c
-}
-
-// rowRHS returns the right-hand side of a row at the seed a:
-// −(d − 2a_p − a_q) J(a) + a_q J(a + e_q − e_p) − a_q J(a + e_q − e_k) for the pair (p, q), and
-// (d − Σa) J(a) for the homogeneity relation.
-func (r *reducer) rowRHS(row int, a [3]int) (expr.Expr, Info, error) {
-	var info Info
-	res := expr.Zero()
-	for _, t := range r.rhsTerms(row, a) {
-		j, jinfo, err := r.integral(t.b)
-		if err != nil {
-			return expr.Expr{}, info, err
-		}
-		mergeInfo(&info, jinfo)
-		res = res.Add(j.Scale(t.w))
-	}
-	return res, info, nil
 }
 
 // integral returns J(b) for any integer powers. The caller holds r.mu.
@@ -450,7 +435,9 @@ type rhsTerm struct {
 	w expr.RatFunc
 }
 
-// rhsTerms lists the right-hand side of a row at the seed a (see rowRHS).
+// rhsTerms lists the right-hand side of a row at the seed a:
+// −(d − 2a_p − a_q) J(a) + a_q J(a + e_q − e_p) − a_q J(a + e_q − e_k) for the pair (p, q), and
+// (d − Σa) J(a) for the homogeneity relation.
 func (r *reducer) rhsTerms(row int, a [3]int) []rhsTerm {
 	if row == 6 {
 		return []rhsTerm{{a, r.d.Sub(expr.RFInt(int64(a[0] + a[1] + a[2])))}}

@@ -191,6 +191,18 @@ func TestTwoLoopPaths(t *testing.T) {
 		if r0.rank3 && r0.noFast {
 			t.Errorf("%v: the fast arithmetic was not used", ms)
 		}
+		if r0.rank3 && len(ms[0].Vars()) > 0 {
+			// the plain rational-function recursion (used where a mass is not a polynomial)
+			rs := newReducer(ms, 0)
+			rs.noFast = true
+			for _, b := range powersUpTo(6) {
+				e0, _, _ := r0.integral(b)
+				es, _, err := rs.integral(b)
+				if err != nil || !e0.Equal(es) {
+					t.Errorf("%v J%v: fast arithmetic %s, plain %s (%v)", ms, b, e0, es, err)
+				}
+			}
+		}
 	}
 }
 
