@@ -171,6 +171,7 @@ func TestSunMasterNumeric(t *testing.T) {
 		{"lambda2<0", [3]float64{2, 3, 1.5}},
 		{"lambda2<0, two equal", [3]float64{1, 2, 2}},
 		{"equal masses", [3]float64{1, 1, 1}},
+		{"lambda2<0, right angle (Cl2(π/2), Cl2(π))", [3]float64{1, 1, 2}},
 		{"threshold m3 = m1 + m2", [3]float64{1, 4, 9}},
 		{"threshold with a massless line (m, m, 0)", [3]float64{2, 2, 0}},
 		{"one massless line", [3]float64{1, 3, 0}},
