@@ -5,60 +5,92 @@ import (
 	"math/big"
 
 	"loopmatch/expr"
-	"loopmatch/loops"
 )
 
-// comb is a linear combination of scalar integrals: entry mask is the coefficient of the scalar
-// integral whose propagators are the set bits of mask (original labels 0 … N−1). The zero
-// value is the zero combination.
-type comb [1 << MaxPoints]expr.RatFunc
+// comb is a linear combination of scalar integrals: num[mask]/den[mask] is the coefficient of
+// the scalar integral whose propagators are the set bits of mask (original labels 0 … N−1).
+// Each coefficient keeps its own denominator: a common one would multiply every numerator by
+// the Gram determinants of unrelated sub-integrals. The zero value is the zero combination.
+type comb struct {
+	num [1 << MaxPoints]expr.Poly
+	den [1 << MaxPoints]denom
+}
 
 // unit returns the scalar integral of the propagators in mask.
 func unit(mask uint8) comb {
 	var c comb
-	c[mask] = expr.RFInt(1)
+	c.num[mask] = expr.PolyInt(1)
 	return c
 }
 
-// addScaled returns c + x·o.
-func (c comb) addScaled(o comb, x expr.RatFunc) comb {
-	if x.IsZero() {
+func (c comb) isZero() bool {
+	for _, x := range c.num {
+		if !x.IsZero() {
+			return false
+		}
+	}
+	return true
+}
+
+// add returns c + m·o.
+func (fs *factorSet) add(c, o comb, m mult) comb {
+	if m.num.IsZero() {
 		return c
 	}
-	for i := range c {
-		if o[i].IsZero() {
+	for i, x := range o.num {
+		if x.IsZero() {
 			continue
 		}
-		c[i] = c[i].Add(o[i].Mul(x))
-	}
-	return c
-}
-
-// scale returns x·c.
-func (c comb) scale(x expr.RatFunc) comb {
-	for i := range c {
-		if !c[i].IsZero() {
-			c[i] = c[i].Mul(x)
+		od := mulDen(o.den[i], m.den)
+		if c.num[i].IsZero() {
+			c.num[i], c.den[i] = x.Mul(m.num), od
+			continue
+		}
+		l := lcmDen(c.den[i], od)
+		a := c.num[i]
+		if q := quoDen(l, c.den[i]); len(q) > 0 {
+			a = a.Mul(fs.poly(q))
+		}
+		b := x.Mul(m.num)
+		if q := quoDen(l, od); len(q) > 0 {
+			b = b.Mul(fs.poly(q))
+		}
+		c.num[i] = a.Add(b)
+		c.den[i] = l
+		if c.num[i].IsZero() {
+			c.den[i] = nil
 		}
 	}
 	return c
 }
 
-// size is the number of polynomial terms in all coefficients, the measure of growth.
+// scale returns m·c.
+func (fs *factorSet) scale(c comb, m mult) comb {
+	if m.num.IsZero() {
+		return comb{}
+	}
+	for i, x := range c.num {
+		if !x.IsZero() {
+			c.num[i] = x.Mul(m.num)
+			c.den[i] = mulDen(c.den[i], m.den)
+		}
+	}
+	return c
+}
+
+// size is the number of polynomial terms in the numerators, the measure of growth.
 func (c comb) size() int {
 	s := 0
-	for _, x := range c {
-		if !x.IsZero() {
-			s += x.Num().Len() + x.Den().Len()
-		}
+	for _, x := range c.num {
+		s += x.Len()
 	}
 	return s
 }
 
 // MaxCoefTerms bounds the size of one tensor coefficient during the reduction: the total number
-// of polynomial terms in the numerators and denominators of its coefficients. Beyond it the
-// reduction fails with an error wrapping expr.ErrTooLarge instead of exhausting time and memory.
-var MaxCoefTerms = 20000
+// of polynomial terms in the numerators of its coefficients. Beyond it the reduction fails
+// with an error wrapping expr.ErrTooLarge instead of exhausting time and memory.
+var MaxCoefTerms = 50000
 
 // checkSize reports a coefficient that outgrew MaxCoefTerms.
 func checkSize(c comb, what string) error {
@@ -68,73 +100,36 @@ func checkSize(c comb, what string) error {
 	return nil
 }
 
-// labelsOf returns the set bits of mask in increasing order.
-func labelsOf(mask uint8) []int {
-	var l []int
-	for i := range MaxPoints {
-		if mask&(1<<i) != 0 {
-			l = append(l, i)
-		}
-	}
-	return l
-}
-
-// atom returns the scalar-integral atom of the propagators in mask, in the argument order of
-// loops.Atom with the momenta P_l − P_{l0} (l0 the lowest label), or ok = false for a scaleless
-// tadpole (zero mass), which vanishes in dimensional regularisation.
-func (k *Kinematics) atom(mask uint8) (e expr.Expr, ok bool, err error) {
-	labels := labelsOf(mask)
-	n := len(labels)
-	var m2, inv []expr.RatFunc
-	for _, l := range labels {
-		m2 = append(m2, k.m2[l])
-	}
-	if n == 1 && m2[0].IsZero() {
-		return expr.Expr{}, false, nil
-	}
-	for _, p := range invariantPairs[n] {
-		inv = append(inv, k.s[labels[p[0]]][labels[p[1]]])
-	}
-	name := [...]string{1: loops.TadName, 2: loops.BubName, 3: loops.TriName, 4: loops.BoxName}[n]
-	e, err = loops.Atom(name, inv, m2)
-	return e, err == nil, err
-}
-
-// atomEntry is a cached scalar-integral atom; ok is false for a scaleless one.
-type atomEntry struct {
-	e  expr.Expr
-	ok bool
-}
-
-// toExpr converts a combination to an expression in the scalar-integral atoms (r.mu held).
-func (r *Reducer) toExpr(c comb) (expr.Expr, error) {
-	var parts []expr.Expr
-	for mask, x := range c {
+// tidy cancels denominator factors that divide their numerator, keeping the growth of the
+// fraction-free numerators in check.
+func (fs *factorSet) tidy(c comb) comb {
+	for i, x := range c.num {
 		if x.IsZero() {
 			continue
 		}
-		a, cached := r.atoms[uint8(mask)]
-		if !cached {
-			e, ok, err := r.kin.atom(uint8(mask))
-			if err != nil {
-				return expr.Expr{}, err
+		var den denom
+		for _, f := range c.den[i] {
+			e := f.e
+			for e > 0 {
+				q, ok := x.DivExact(fs.polys[f.id])
+				if !ok {
+					break
+				}
+				x = q
+				e--
 			}
-			a = atomEntry{e, ok}
-			r.atoms[uint8(mask)] = a
+			if e > 0 {
+				den = append(den, fexp{f.id, e})
+			}
 		}
-		if a.ok {
-			parts = append(parts, a.e.Scale(x))
-		}
+		c.num[i], c.den[i] = x, den
 	}
-	return expr.Sum(parts...), nil
+	return c
 }
-
-// rat returns the rational constant a/b.
-func rat(a, b int64) expr.RatFunc { return expr.RFRat(big.NewRat(a, b)) }
 
 // epsilon returns ε = (4 − d)/2.
 func epsilon() expr.RatFunc {
-	return rat(2, 1).Sub(expr.RFVar(expr.DimSymbol).Scale(big.NewRat(1, 2)))
+	return expr.RFInt(2).Sub(expr.RFVar(expr.DimSymbol).Scale(big.NewRat(1, 2)))
 }
 
 // factorial returns n! as an int64 (n ≤ 20).

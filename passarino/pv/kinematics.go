@@ -141,22 +141,20 @@ func det(m [][]expr.RatFunc) expr.RatFunc {
 	return s
 }
 
-// inverse returns the inverse of a square matrix of size ≤ 3 with the given nonzero
-// determinant, as adjugate/det.
-func inverse(m [][]expr.RatFunc, dt expr.RatFunc) ([][]expr.RatFunc, error) {
+// adjugate returns the adjugate of a square matrix of size 1 … 3 (adj·m = det·1).
+func adjugate(m [][]expr.RatFunc) [][]expr.RatFunc {
 	n := len(m)
-	inv := make([][]expr.RatFunc, n)
-	for i := range inv {
-		inv[i] = make([]expr.RatFunc, n)
+	adj := make([][]expr.RatFunc, n)
+	for i := range adj {
+		adj[i] = make([]expr.RatFunc, n)
 	}
 	if n == 1 {
-		x, err := expr.RFInt(1).Div(dt)
-		inv[0][0] = x
-		return inv, err
+		adj[0][0] = expr.RFInt(1)
+		return adj
 	}
 	for i := range n {
 		for j := range n {
-			// cofactor C_ji gives (adj)_ij
+			// (adj)_ij is the cofactor C_ji
 			var minor [][]expr.RatFunc
 			for r := range n {
 				if r == j {
@@ -174,12 +172,8 @@ func inverse(m [][]expr.RatFunc, dt expr.RatFunc) ([][]expr.RatFunc, error) {
 			if (i+j)%2 == 1 {
 				c = c.Neg()
 			}
-			x, err := c.Div(dt)
-			if err != nil {
-				return nil, err
-			}
-			inv[i][j] = x
+			adj[i][j] = c
 		}
 	}
-	return inv, nil
+	return adj
 }

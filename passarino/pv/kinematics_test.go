@@ -2,6 +2,7 @@ package pv
 
 import (
 	"errors"
+	"math/big"
 	"math/rand/v2"
 	"slices"
 	"strings"
@@ -220,3 +221,6 @@ func TestConcurrentUse(t *testing.T) {
 	}
 	wg.Wait()
 }
+
+// rat returns the rational constant a/b.
+func rat(a, b int64) expr.RatFunc { return expr.RFRat(big.NewRat(a, b)) }

@@ -24,6 +24,7 @@ type Reducer struct {
 	memo   map[memoKey]comb
 	frames map[uint8]*frame
 	atoms  map[uint8]atomEntry
+	fs     *factorSet
 }
 
 // memoKey identifies a coefficient of the sub-integral with the propagators in mask, in that
@@ -41,17 +42,18 @@ type frame struct {
 	labels  []int
 	n       int
 	m0      expr.RatFunc
-	f       []expr.RatFunc   // f_a = p_a² − m_a² + m0², a = 1 … n (index a−1)
-	zinv    [][]expr.RatFunc // inverse of Z_ab = 2 p_a·p_b when it exists
-	rowSum  []expr.RatFunc   // Σ_b (Z⁻¹)_ab
-	rowF    []expr.RatFunc   // Σ_b (Z⁻¹)_ab f_b
-	zeroP   bool             // n = 1 and p1² = 0: the closed form of zeromom.go applies
-	gramErr error            // set when n ≥ 2 and det Z = 0
+	twoM0   mult     // 2 m0²
+	f       []mult   // f_a = p_a² − m_a² + m0², a = 1 … n (index a−1)
+	zinv    [][]mult // inverse of Z_ab = 2 p_a·p_b when it exists
+	rowSum  []mult   // −Σ_b (Z⁻¹)_ab
+	rowF    []mult   // −Σ_b (Z⁻¹)_ab f_b
+	zeroP   bool     // n = 1 and p1² = 0: the closed form of zeromom.go applies
+	gramErr error    // set when n ≥ 2 and det Z = 0
 }
 
 // NewReducer returns a reducer for the kinematics k.
 func NewReducer(k *Kinematics) *Reducer {
-	return &Reducer{kin: k, memo: map[memoKey]comb{}, frames: map[uint8]*frame{}, atoms: map[uint8]atomEntry{}}
+	return &Reducer{kin: k, memo: map[memoKey]comb{}, frames: map[uint8]*frame{}, atoms: map[uint8]atomEntry{}, fs: newFactorSet()}
 }
 
 // Kinematics returns the kinematics the reducer works on.
@@ -99,9 +101,13 @@ func (r *Reducer) frameOf(mask uint8) (*frame, error) {
 	k := r.kin
 	labels := labelsOf(mask)
 	fr := &frame{mask: mask, labels: labels, n: len(labels) - 1, m0: k.m2[labels[0]]}
+	fs := r.fs
+	fr.twoM0 = fs.fromRat(fr.m0.Scale(bigTwo))
+	var f []expr.RatFunc
 	for a := 1; a <= fr.n; a++ {
 		la := labels[a]
-		fr.f = append(fr.f, k.s[labels[0]][la].Sub(k.m2[la]).Add(fr.m0))
+		f = append(f, k.s[labels[0]][la].Sub(k.m2[la]).Add(fr.m0))
+		fr.f = append(fr.f, fs.fromRat(f[a-1]))
 	}
 	if fr.n >= 1 {
 		z := gramOf(k, labels)
@@ -112,19 +118,23 @@ func (r *Reducer) frameOf(mask uint8) (*frame, error) {
 		case dt.IsZero():
 			fr.gramErr = fmt.Errorf("%w of %s: its external momenta are zero or collinear, so the Passarino–Veltman recursion does not apply; use the vacuum path or a reduction without inverse Gram determinants", ErrZeroGram, k.describe(mask))
 		default:
-			inv, err := inverse(z, dt)
-			if err != nil {
-				return nil, err
-			}
-			fr.zinv = inv
+			// Z⁻¹ = adj(Z)/det Z with the determinant registered as a denominator factor.
+			adj := adjugate(z)
+			dm := fs.fromRat(dt)
+			c, d := fs.split(dm.num) // det Z = c·Π(factors d)/dm.den
+			detInv := mult{num: fs.poly(dm.den).Scale(new(big.Rat).Inv(c)), den: d}
 			for a := range fr.n {
-				sum, sumF := expr.RFInt(0), expr.RFInt(0)
+				var row []mult
+				var sum, sumF mult
 				for b := range fr.n {
-					sum = sum.Add(inv[a][b])
-					sumF = sumF.Add(inv[a][b].Mul(fr.f[b]))
+					x := mulMult(fs.fromRat(adj[a][b]), detInv)
+					row = append(row, x)
+					sum = fs.addMult(sum, x)
+					sumF = fs.addMult(sumF, mulMult(x, fr.f[b]))
 				}
-				fr.rowSum = append(fr.rowSum, sum)
-				fr.rowF = append(fr.rowF, sumF)
+				fr.zinv = append(fr.zinv, row)
+				fr.rowSum = append(fr.rowSum, mult{num: sum.num.Neg(), den: sum.den})
+				fr.rowF = append(fr.rowF, mult{num: sumF.num.Neg(), den: sumF.den})
 			}
 		}
 	}
@@ -193,6 +203,7 @@ func (r *Reducer) coef(mask uint8, l label) (comb, error) {
 	if err != nil {
 		return comb{}, err
 	}
+	c = r.fs.tidy(c)
 	if err := checkSize(c, r.kin.describe(mask)); err != nil {
 		return comb{}, err
 	}
@@ -221,8 +232,8 @@ func (r *Reducer) metricStep(fr *frame, l label) (comb, error) {
 	if err != nil {
 		return comb{}, err
 	}
-	var c comb
-	c = c.addScaled(s, rat(1, 1)).addScaled(t, fr.m0.Scale(bigTwo))
+	fs := r.fs
+	c := fs.add(fs.add(comb{}, s, constMult(1, 1)), t, fr.twoM0)
 	for k := 1; k <= fr.n; k++ {
 		up := lo
 		up.a[k-1]++
@@ -230,15 +241,12 @@ func (r *Reducer) metricStep(fr *frame, l label) (comb, error) {
 		if err != nil {
 			return comb{}, err
 		}
-		c = c.addScaled(tk, fr.f[k-1])
+		c = fs.add(c, tk, fr.f[k-1])
 	}
-	// 2(d + P − N − 1) with N = n + 1
-	den := expr.RFVar(expr.DimSymbol).Add(rat(int64(p-fr.n-2), 1)).Scale(bigTwo)
-	inv, err := den.Inv()
-	if err != nil {
-		return comb{}, err
-	}
-	return c.scale(inv), nil
+	// 1/(2(d + P − N − 1)) with N = n + 1
+	lin := expr.PolyVar(expr.DimSymbol).Add(expr.PolyInt(int64(p - fr.n - 2)))
+	id, _ := fs.register(lin) // monic: content 1
+	return fs.scale(c, mult{num: expr.PolyConst(big.NewRat(1, 2)), den: denom{{id, 1}}}), nil
 }
 
 // gramStep computes a coefficient without 0s from the contraction with the momenta
@@ -266,19 +274,19 @@ func (r *Reducer) gramStep(fr *frame, l label) (comb, error) {
 	if err != nil {
 		return comb{}, err
 	}
-	// Σ_k (Z⁻¹)_hk and Σ_k (Z⁻¹)_hk f_k multiply S_β and T_β once.
-	var c comb
-	c = c.addScaled(s, fr.rowSum[h-1].Neg()).addScaled(t, fr.rowF[h-1].Neg())
+	// −Σ_k (Z⁻¹)_hk and −Σ_k (Z⁻¹)_hk f_k multiply S_β and T_β once.
+	fs := r.fs
+	c := fs.add(fs.add(comb{}, s, fr.rowSum[h-1]), t, fr.rowF[h-1])
 	for k := 1; k <= fr.n; k++ {
 		z := fr.zinv[h-1][k-1]
-		if z.IsZero() {
+		if z.num.IsZero() {
 			continue
 		}
 		kk, err := r.cancelK(fr, k, beta)
 		if err != nil {
 			return comb{}, err
 		}
-		c = c.addScaled(kk, z)
+		c = fs.add(c, kk, z)
 		if b := beta.a[k-1]; b > 0 {
 			up := beta
 			up.a[k-1]--
@@ -287,7 +295,7 @@ func (r *Reducer) gramStep(fr *frame, l label) (comb, error) {
 			if err != nil {
 				return comb{}, err
 			}
-			c = c.addScaled(t00, z.Scale(big.NewRat(int64(-2*b), 1)))
+			c = fs.add(c, t00, mult{num: z.num.Scale(big.NewRat(int64(-2*b), 1)), den: z.den})
 		}
 	}
 	return c, nil
@@ -349,7 +357,7 @@ func (r *Reducer) cancelRef(fr *frame, l label) (comb, error) {
 			}
 			var c comb
 			c, err = r.coef(subMask, sub)
-			out = out.addScaled(c, rat(w, 1))
+			out = r.fs.add(out, c, constMult(w, 1))
 			return
 		}
 		for x := 0; x <= left; x++ {

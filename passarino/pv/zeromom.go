@@ -35,7 +35,9 @@ func (r *Reducer) zeroMomentum(fr *frame, l label) comb {
 		g = eps.Sub(expr.RFInt(1))
 	}
 	for i := 2; i <= j; i++ {
-		g, _ = g.Div(eps.Sub(expr.RFInt(int64(i)))) // ε − i ≠ 0 as a function of d
+		x := eps.Sub(expr.RFInt(int64(i)))
+		r.fs.register(x.Num())
+		g, _ = g.Div(x) // ε − i ≠ 0 as a function of d
 	}
 	// prefactor (−1)^{j+P} 2^{−j} times the leading −g_j
 	pre := g.Neg().Scale(big.NewRat(1, 1<<j))
@@ -43,22 +45,25 @@ func (r *Reducer) zeroMomentum(fr *frame, l label) comb {
 		pre = pre.Neg()
 	}
 
-	var c comb
+	fs := r.fs
 	if M0.Equal(M1) {
 		if M0.IsZero() {
-			return c // scaleless
+			return comb{} // scaleless
 		}
 		mp, _ := M0.Pow(j - 1)
-		c[t0] = pre.Mul(mp).Scale(big.NewRat(1, int64(a+1)))
-		return c
+		return fs.add(comb{}, unit(t0), fs.fromRat(pre.Mul(mp).Scale(big.NewRat(1, int64(a+1)))))
 	}
 	delta := M1.Sub(M0)
+	if !delta.IsConst() {
+		fs.register(delta.Num()) // so that its powers split off denominators
+	}
 	dinv, _ := delta.Pow(-a - 1) // delta ≠ 0
 	var c0, c1 expr.RatFunc = expr.RFInt(0), expr.RFInt(0)
 	for kk := 0; kk <= a; kk++ {
 		w, _ := M0.Neg().Pow(a - kk)
 		w = w.Scale(new(big.Rat).SetInt(binomial(a, kk)))
 		den := expr.RFInt(int64(kk + j + 1)).Sub(eps)
+		fs.register(den.Num())
 		w, _ = w.Div(den)
 		p1, _ := M1.Pow(kk + j)
 		p0, _ := M0.Pow(kk + j)
@@ -66,11 +71,12 @@ func (r *Reducer) zeroMomentum(fr *frame, l label) comb {
 		c0 = c0.Sub(w.Mul(p0))
 	}
 	f := pre.Mul(dinv)
+	var c comb
 	if !M1.IsZero() {
-		c[t1] = c1.Mul(f)
+		c = fs.add(c, unit(t1), fs.fromRat(c1.Mul(f)))
 	}
 	if !M0.IsZero() {
-		c[t0] = c0.Mul(f)
+		c = fs.add(c, unit(t0), fs.fromRat(c0.Mul(f)))
 	}
 	return c
 }
