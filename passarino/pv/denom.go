@@ -6,11 +6,12 @@ import (
 	"loopmatch/expr"
 )
 
-// The reduction keeps its coefficients fraction-free: a combination of scalar integrals is a
-// set of polynomial numerators over one common denominator, and a denominator is a product of
-// powers of registered factor polynomials (Gram determinants, linear polynomials in d, mass
-// differences). Adding two combinations then takes the least common multiple of two factor
-// lists and polynomial products, with no polynomial GCD; each coefficient is brought to lowest
+// The reduction keeps its coefficients fraction-free: the coefficient of each scalar integral
+// is a polynomial numerator over a denominator written as a product of powers of registered
+// factor polynomials (Gram determinants, linear polynomials in d, mass differences). Adding
+// two coefficients takes the least common multiple of two factor lists and polynomial
+// products, with no polynomial GCD; whole factors that divide a numerator are cancelled by
+// exact division after each step (comb.go, tidy), and each coefficient is brought to lowest
 // terms once, when it leaves the package. (Normalising after every step spent most of the time
 // of symbolic reductions in GCDs of large polynomials.)
 
