@@ -661,12 +661,8 @@ func (l *lowerer) lookup(name string) (binding, bool) {
 
 // resolveName follows aliases to the name in the file's scope.
 func (l *lowerer) resolveName(name string) string {
-	for range maxDefineDepth {
-		b, ok := l.lookup(name)
-		if !ok || b.val != nil {
-			return name
-		}
-		name = b.alias
+	if b, ok := l.lookup(name); ok && b.val == nil {
+		return b.alias // bindings hold names of the file's scope
 	}
 	return name
 }
@@ -720,8 +716,9 @@ func (l *lowerer) ref(r *NameRef) (value, error) {
 			}
 			return *b.val, nil
 		}
+		// Aliases are resolved to names of the file's scope when bound.
 		saved := l.env
-		l.env = l.env[:len(l.env)-1]
+		l.env = nil
 		v, err := l.ref(&NameRef{Pos: r.Pos, Name: b.alias, Index: r.Index})
 		l.env = saved
 		return v, err
@@ -1259,7 +1256,13 @@ func (l *lowerer) expand(r *NameRef, groups []*ArgGroup) (value, error) {
 	for i, prm := range d.Params {
 		a := args[i]
 		if n, _, ok := argName(a); ok {
-			env[prm.Value] = binding{alias: l.resolveName(n)}
+			// Resolve the name in the caller's scope now: a parameter of the caller stands for
+			// a name or a value there.
+			if b, ok := l.lookup(n); ok {
+				env[prm.Value] = b
+				continue
+			}
+			env[prm.Value] = binding{alias: n}
 			continue
 		}
 		v, err := l.expr(a)
