@@ -37,12 +37,15 @@ type command struct {
 	run     func(args []string, out, errOut io.Writer) int
 }
 
-var commands map[string]*command
+// commands holds every subcommand; each file registers its own with register in an init
+// function, so adding a command touches only its file.
+var commands = map[string]*command{}
+
+func register(c *command) { commands[c.name] = c }
 
 func init() {
-	commands = map[string]*command{}
 	for _, c := range []*command{checkCmd, simplifyCmd, integralCmd, reduceCmd, matchCmd, versionCmd, helpCmd} {
-		commands[c.name] = c
+		register(c)
 	}
 }
 
