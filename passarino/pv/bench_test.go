@@ -45,3 +45,31 @@ func BenchmarkBoxRank3Numeric(b *testing.B) { benchmarkBox(b, false) }
 
 // BenchmarkBoxRank3SymbolicMasses is the same box with the four squared masses symbolic.
 func BenchmarkBoxRank3SymbolicMasses(b *testing.B) { benchmarkBox(b, true) }
+
+// BenchmarkTriangleRank3Symbolic reduces all 16 coefficients of rank ≤ 3 of a triangle with
+// symbolic invariants and squared masses (six symbols and d).
+func BenchmarkTriangleRank3Symbolic(b *testing.B) {
+	var inv, m2 []expr.RatFunc
+	for _, v := range []string{"s01", "s12", "s02"} {
+		inv = append(inv, expr.RFVar(v))
+	}
+	for _, v := range []string{"M0", "M1", "M2"} {
+		m2 = append(m2, expr.RFVar(v))
+	}
+	k, err := NewKinematics(inv, m2)
+	if err != nil {
+		b.Fatal(err)
+	}
+	var idxs [][]int
+	for r := 0; r <= 3; r++ {
+		idxs = append(idxs, Indices(3, r)...)
+	}
+	for b.Loop() {
+		red := NewReducer(k)
+		for _, idx := range idxs {
+			if _, err := red.Coefficient(idx); err != nil {
+				b.Fatal(err)
+			}
+		}
+	}
+}

@@ -92,15 +92,18 @@ func ratOf(x float64) expr.RatFunc {
 
 // numericCase is one row of the quadrature comparison: N and the highest rank.
 type numericCase struct {
-	n, maxRank int
-	points     int // default run
-	pointsLong int // LOOPMATCH_LONG=1 run
-	nodes      int // Gauss–Legendre nodes per dimension
-	seed       uint64
+	n           int
+	maxRank     int // default run
+	maxRankLong int // LOOPMATCH_LONG=1 run
+	points      int // default run
+	pointsLong  int // LOOPMATCH_LONG=1 run
+	nodes       int // Gauss–Legendre nodes per dimension
+	seed        uint64
 }
 
 // TestAgainstFeynmanParameters compares every coefficient with N ≤ 4 and rank ≤ 4 (all the
-// 00-pairs included) against the Feynman-parameter quadrature (F) of feynman_test.go at random
+// 00-pairs included; with LOOPMATCH_LONG=1 more points and ranks up to 6 for N ≤ 2, 5 for N = 3)
+// against the Feynman-parameter quadrature (F) of feynman_test.go at random
 // Euclidean points. The reduced expression is evaluated twice with loops:
 //
 //   - with its exact coefficients and loops' arbitrary-precision scalar integrals: finite part
@@ -114,21 +117,21 @@ type numericCase struct {
 func TestAgainstFeynmanParameters(t *testing.T) {
 	long := os.Getenv("LOOPMATCH_LONG") != "" && !testing.Short()
 	cases := []numericCase{
-		{n: 1, maxRank: 4, points: 10, pointsLong: 10, nodes: 1, seed: 1},
-		{n: 2, maxRank: 4, points: 10, pointsLong: 20, nodes: 40, seed: 2},
-		{n: 3, maxRank: 4, points: 10, pointsLong: 20, nodes: 40, seed: 3},
-		{n: 4, maxRank: 4, points: 3, pointsLong: 10, nodes: 40, seed: 4},
+		{n: 1, maxRank: 4, maxRankLong: 6, points: 10, pointsLong: 10, nodes: 1, seed: 1},
+		{n: 2, maxRank: 4, maxRankLong: 6, points: 10, pointsLong: 20, nodes: 40, seed: 2},
+		{n: 3, maxRank: 4, maxRankLong: 5, points: 10, pointsLong: 20, nodes: 40, seed: 3},
+		{n: 4, maxRank: 4, maxRankLong: 4, points: 3, pointsLong: 10, nodes: 40, seed: 4},
 	}
 	for _, tc := range cases {
 		t.Run(fmt.Sprintf("N=%d", tc.n), func(t *testing.T) {
 			rng := rand.New(rand.NewPCG(tc.seed, 99))
-			points := tc.points
+			points, maxRank := tc.points, tc.maxRank
 			if long {
-				points = tc.pointsLong
+				points, maxRank = tc.pointsLong, tc.maxRankLong
 			}
 			var idxs [][]int
 			var ls []label
-			for r := 0; r <= tc.maxRank; r++ {
+			for r := 0; r <= maxRank; r++ {
 				for _, idx := range Indices(tc.n, r) {
 					l, err := parseIndex(tc.n, idx)
 					if err != nil {
