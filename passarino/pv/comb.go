@@ -92,10 +92,10 @@ func (c comb) size() int {
 // with an error wrapping expr.ErrTooLarge instead of exhausting time and memory.
 var MaxCoefTerms = 50000
 
-// checkSize reports a coefficient that outgrew MaxCoefTerms.
-func checkSize(c comb, what string) error {
+// checkSize reports a coefficient of the sub-integral mask that outgrew MaxCoefTerms.
+func (k *Kinematics) checkSize(c comb, mask uint8) error {
 	if s := c.size(); s > MaxCoefTerms {
-		return fmt.Errorf("%w: pv: the coefficients of %s have %d polynomial terms, more than MaxCoefTerms = %d", expr.ErrTooLarge, what, s, MaxCoefTerms)
+		return fmt.Errorf("%w: pv: the coefficients of %s have %d polynomial terms, more than MaxCoefTerms = %d", expr.ErrTooLarge, k.describe(mask), s, MaxCoefTerms)
 	}
 	return nil
 }

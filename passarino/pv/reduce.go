@@ -73,12 +73,10 @@ func (r *Reducer) Coefficient(idx []int) (expr.Expr, error) {
 	r.mu.Lock()
 	defer r.mu.Unlock()
 	top := uint8(1<<r.kin.n - 1)
-	fr, err := r.frameOf(top)
-	if err == nil && l.rank() > 0 && fr.gramErr != nil {
-		err = fr.gramErr // every tensor coefficient needs the function's own Gram inverse
-	}
 	var c comb
-	if err == nil {
+	if fr := r.frameOf(top); l.rank() > 0 && fr.gramErr != nil {
+		err = fr.gramErr // every tensor coefficient needs the function's own Gram inverse
+	} else {
 		c, err = r.coef(top, l)
 	}
 	if err != nil {
@@ -94,20 +92,18 @@ func Coefficient(k *Kinematics, idx []int) (expr.Expr, error) {
 }
 
 // frameOf returns the frame of the sub-integral mask, building it once.
-func (r *Reducer) frameOf(mask uint8) (*frame, error) {
+func (r *Reducer) frameOf(mask uint8) *frame {
 	if fr, ok := r.frames[mask]; ok {
-		return fr, nil
+		return fr
 	}
 	k := r.kin
 	labels := labelsOf(mask)
 	fr := &frame{mask: mask, labels: labels, n: len(labels) - 1, m0: k.m2[labels[0]]}
 	fs := r.fs
 	fr.twoM0 = fs.fromRat(fr.m0.Scale(bigTwo))
-	var f []expr.RatFunc
 	for a := 1; a <= fr.n; a++ {
 		la := labels[a]
-		f = append(f, k.s[labels[0]][la].Sub(k.m2[la]).Add(fr.m0))
-		fr.f = append(fr.f, fs.fromRat(f[a-1]))
+		fr.f = append(fr.f, fs.fromRat(k.s[labels[0]][la].Sub(k.m2[la]).Add(fr.m0)))
 	}
 	if fr.n >= 1 {
 		z := gramOf(k, labels)
@@ -139,7 +135,7 @@ func (r *Reducer) frameOf(mask uint8) (*frame, error) {
 		}
 	}
 	r.frames[mask] = fr
-	return fr, nil
+	return fr
 }
 
 // describe names the (sub-)integral mask with its kinematics.
@@ -180,11 +176,9 @@ func (r *Reducer) coef(mask uint8, l label) (comb, error) {
 	if c, ok := r.memo[key]; ok {
 		return c, nil
 	}
-	fr, err := r.frameOf(mask)
-	if err != nil {
-		return comb{}, err
-	}
+	fr := r.frameOf(mask)
 	var c comb
+	var err error
 	switch {
 	case fr.zeroP:
 		c = r.zeroMomentum(fr, l)
@@ -204,7 +198,7 @@ func (r *Reducer) coef(mask uint8, l label) (comb, error) {
 		return comb{}, err
 	}
 	c = r.fs.tidy(c)
-	if err := checkSize(c, r.kin.describe(mask)); err != nil {
+	if err := r.kin.checkSize(c, mask); err != nil {
 		return comb{}, err
 	}
 	r.memo[key] = c

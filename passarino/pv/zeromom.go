@@ -41,7 +41,7 @@ func (r *Reducer) zeroMomentum(fr *frame, l label) comb {
 	}
 	// prefactor (−1)^{j+P} 2^{−j} times the leading −g_j
 	pre := g.Neg().Scale(big.NewRat(1, 1<<j))
-	if (j+2*j+a)%2 == 1 {
+	if p := 2*j + a; (j+p)%2 == 1 {
 		pre = pre.Neg()
 	}
 
