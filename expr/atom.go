@@ -18,6 +18,7 @@ import (
 //	Levi    the Levi-Civita symbol levi(a, b, c, d) with index or momentum slots
 //	Prop    a propagator denominator K^2 − M², appearing with negative powers
 //	Chain   a closed spinor chain ubar(a) … u(b), with its Dirac and colour matrices in order
+//	Trace   the trace of a string of Dirac and colour matrices (a fermion loop)
 //	Colour  colour objects outside chains: f(a, b, c), delta(i, j)
 type Atom interface {
 	// Key is the canonical text of the atom.
@@ -37,6 +38,7 @@ const (
 	classLevi
 	classColour
 	classChain
+	classTrace
 	classProp
 )
 
@@ -279,6 +281,25 @@ func NewChain(elems []NC) Chain {
 
 func (c Chain) Key() string { return c.key }
 func (c Chain) order() int  { return classChain }
+
+// Trace is the trace of a closed string of Dirac and colour matrices (a fermion loop):
+// tr(gamma(al) slash(k) …). Package expr/dirac evaluates it.
+type Trace struct {
+	Elems []NC
+	key   string
+}
+
+// NewTrace builds a trace atom from its elements.
+func NewTrace(elems []NC) Trace {
+	parts := make([]string, len(elems))
+	for i, e := range elems {
+		parts[i] = e.Key()
+	}
+	return Trace{Elems: elems, key: "tr(" + strings.Join(parts, " ") + ")"}
+}
+
+func (t Trace) Key() string { return t.key }
+func (t Trace) order() int  { return classTrace }
 
 // Colour is a colour object outside spinor chains: the structure constants f(a, b, c) (slots
 // sorted, sign of the permutation to the coefficient) or delta(i, j).

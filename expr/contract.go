@@ -22,11 +22,9 @@ func indexed(a Atom) bool {
 			}
 		}
 	case Chain:
-		for _, e := range x.Elems {
-			if e.Op == NCGamma || e.Op == NCSigma {
-				return true
-			}
-		}
+		return len(ncIndices(x.Elems)) > 0
+	case Trace:
+		return len(ncIndices(x.Elems)) > 0
 	}
 	return false
 }
@@ -61,6 +59,8 @@ func atomIndices(a Atom) []string {
 		}
 		return out
 	case Chain:
+		return ncIndices(x.Elems)
+	case Trace:
 		return ncIndices(x.Elems)
 	}
 	return nil
@@ -123,6 +123,8 @@ func renameIndex(a Atom, old, nu string) (Atom, int) {
 		return l, sign
 	case Chain:
 		return NewChain(renameNC(x.Elems, old, nu)), 1
+	case Trace:
+		return NewTrace(renameNC(x.Elems, old, nu)), 1
 	}
 	return a, 1
 }
@@ -278,6 +280,12 @@ func contract(t Term) (Term, bool) {
 			case Chain:
 				if out, ok := slashIn(o.Elems, mu, v.P); ok {
 					fs[oi] = NewChain(out)
+					fs = append(fs[:vi], fs[vi+1:]...)
+					changed = true
+				}
+			case Trace:
+				if out, ok := slashIn(o.Elems, mu, v.P); ok {
+					fs[oi] = NewTrace(out)
 					fs = append(fs[:vi], fs[vi+1:]...)
 					changed = true
 				}

@@ -78,33 +78,87 @@ func smallOf(p *notation.Program, mb *notation.MatchBlock) passarino.Small {
 	return s
 }
 
-// pipeline carries the pieces shared by the steps of a match.
-type pipeline struct {
-	p     *notation.Program
-	mb    *notation.MatchBlock
-	small passarino.Small
-	kin   *Kinematics
-	dkin  dirac.Kinematics
-	opt   Options
-	notes []string
+// Canon brings expressions to the form in which they are projected: fermion-loop traces
+// evaluated, the Dirac and colour algebra applied (NDR, on-shell external legs, declared indices
+// as names of contracted pairs), the on-shell scalar products substituted and, on the heavy-mass
+// route, the expansion truncated.
+type Canon struct {
+	kin      *Kinematics
+	dkin     dirac.Kinematics
+	small    passarino.Small
+	truncate bool
+	opt      dirac.Options
+	Notes    []string // evanescent remainders dropped, …
 }
 
-// canonical applies the Dirac algebra, the on-shell kinematics and the truncation.
-func (pl *pipeline) canonical(e expr.Expr) (expr.Expr, error) {
-	s, rep, err := dirac.Simplify(e, pl.dkin, pl.opt.Dirac)
+// NewCanon prepares the canonical form for the legs of p; with truncate, parts beyond the
+// order of small are dropped.
+func NewCanon(p *notation.Program, small passarino.Small, truncate bool, opt Options) (*Canon, error) {
+	kin, err := NewKinematics(p.Legs)
+	if err != nil {
+		return nil, err
+	}
+	c := &Canon{kin: kin, small: small, truncate: truncate, opt: opt.Dirac}
+	if c.opt.Dummies == nil {
+		c.opt.Dummies = p.NamesOf(notation.KindIndex)
+		c.opt.ColourDummies = p.NamesOf(notation.KindAdjoint)
+	}
+	for _, l := range p.Legs {
+		m := expr.RFInt(0) // dirac.Leg takes the mass, not its square
+		if l.Mass != "" {
+			m = expr.RFVar(l.Mass)
+		}
+		c.dkin.Legs = append(c.dkin.Legs, dirac.Leg{Name: l.Name, Mom: l.Mom, Mass: m, Coloured: l.Colour != ""})
+	}
+	return c, nil
+}
+
+// Apply brings e to the canonical form.
+func (c *Canon) Apply(e expr.Expr) (expr.Expr, error) {
+	e, err := dirac.EvalTraces(e, c.opt)
+	if err != nil {
+		return expr.Expr{}, err
+	}
+	s, rep, err := dirac.Simplify(e, c.dkin, c.opt)
 	if err != nil {
 		return expr.Expr{}, err
 	}
 	for _, ev := range rep.Evanescent {
-		pl.notes = append(pl.notes, fmt.Sprintf("evanescent remainder dropped: %v", ev))
+		c.Notes = append(c.Notes, fmt.Sprintf("evanescent remainder dropped: %v", ev))
 	}
-	if s, err = pl.kin.Apply(s); err != nil {
+	if s, err = c.kin.Apply(s); err != nil {
 		return expr.Expr{}, err
 	}
-	if pl.mb.HasExpand {
-		s, _, err = pl.small.Truncate(s)
+	if c.truncate {
+		s, _, err = c.small.Truncate(s)
 	}
 	return s, err
+}
+
+// Rules lists the on-shell substitutions of scalar products.
+func (c *Canon) Rules() []string { return c.kin.Rules() }
+
+// Reduce expands e on the heavy-mass route (small quantities and order of small), reduces its
+// loop integrals exactly in d, brings it to the canonical form and expands it in ε up to the
+// finite part. It returns the series and notes on what was set to zero or dropped.
+func Reduce(p *notation.Program, e expr.Expr, small passarino.Small, opt Options) (expr.Series, []string, error) {
+	c, err := NewCanon(p, small, true, opt)
+	if err != nil {
+		return expr.Series{}, nil, err
+	}
+	red, info, err := passarino.Heavy(e, small)
+	if err != nil {
+		return expr.Series{}, nil, err
+	}
+	var notes []string
+	for _, s := range info.Scaleless {
+		notes = append(notes, "scaleless integral set to zero (infrared poles become EFT ultraviolet poles here): "+s)
+	}
+	if red, err = c.Apply(red); err != nil {
+		return expr.Series{}, nil, err
+	}
+	ser, err := vacuum.ExpandEps(red, 1, p.Positive)
+	return ser, append(notes, c.Notes...), err
 }
 
 // Run executes one match block of p (heavy-mass route).
@@ -115,23 +169,12 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 	if !mb.HasExpand {
 		return nil, fmt.Errorf("%s: the heavy-mass route needs an expand line (expand p, q to order N)", mb.Pos)
 	}
-	kin, err := NewKinematics(p.Legs)
+	small := smallOf(p, mb)
+	pl, err := NewCanon(p, small, true, opt)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %v", mb.Pos, err)
 	}
-	if opt.Dirac.Dummies == nil {
-		opt.Dirac.Dummies = p.NamesOf(notation.KindIndex)
-		opt.Dirac.ColourDummies = p.NamesOf(notation.KindAdjoint)
-	}
-	pl := &pipeline{p: p, mb: mb, small: smallOf(p, mb), kin: kin, opt: opt}
-	for _, l := range p.Legs {
-		m := expr.RFInt(0) // dirac.Leg takes the mass, not its square
-		if l.Mass != "" {
-			m = expr.RFVar(l.Mass)
-		}
-		pl.dkin.Legs = append(pl.dkin.Legs, dirac.Leg{Name: l.Name, Mom: l.Mom, Mass: m, Coloured: l.Colour != ""})
-	}
-	res := &Result{Block: mb, Kinematics: kin.Rules()}
+	res := &Result{Block: mb, Kinematics: pl.Rules()}
 	res.Conventions = []string{
 		fmt.Sprintf("L_eff = N * sum_i C_i Q_i with N = %s; amplitudes are iM", mb.Norm),
 		"metric (+,-,-,-), d = 4 - 2*eps, MS-bar: loop k {…} = mu^(2 eps) (e^gamma_E/(4 pi))^eps ∫ d^dk/(2 pi)^d",
@@ -147,18 +190,7 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 		a, _ := p.Amplitude(n)
 		full = full.Add(a.Body)
 	}
-	red, info, err := passarino.Heavy(full, pl.small)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %v", mb.Pos, err)
-	}
-	for _, s := range info.Scaleless {
-		pl.notes = append(pl.notes, "scaleless integral set to zero (infrared poles become EFT ultraviolet poles here): "+s)
-	}
-	red, err = pl.canonical(red)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %v", mb.Pos, err)
-	}
-	ser, err := vacuum.ExpandEps(red, 1, p.Positive)
+	ser, notes, err := Reduce(p, full, small, opt)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %v", mb.Pos, err)
 	}
@@ -181,7 +213,7 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 		if err != nil {
 			return nil, err
 		}
-		if me, err = pl.canonical(me); err != nil {
+		if me, err = pl.Apply(me); err != nil {
 			return nil, fmt.Errorf("operator %s: %v", name, err)
 		}
 		if basis[i], err = me.Mul(iN); err != nil {
@@ -200,11 +232,11 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 	}
 	// Checks. UV poles: large-momentum expansion of the loop terms plus the poles of the tree-level
 	// (counterterm) terms.
-	uv, err := passarino.UVPole(full, massSymbols(p), pl.small.OnShell)
+	uv, err := passarino.UVPole(full, massSymbols(p), small.OnShell)
 	if err != nil {
 		return nil, err
 	}
-	if uv, err = pl.canonical(uv); err != nil {
+	if uv, err = pl.Apply(uv); err != nil {
 		return nil, err
 	}
 	if uv, err = uv.Subst(expr.DimSymbol, expr.RFInt(4)); err != nil { // residue at d = 4
@@ -220,7 +252,7 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 	if err != nil {
 		return nil, err
 	}
-	ctPole, err := pl.canonical(treeSer.Coef(-1))
+	ctPole, err := pl.Apply(treeSer.Coef(-1))
 	if err != nil {
 		return nil, err
 	}
@@ -286,7 +318,7 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 			Detail: describe("difference", diff),
 		})
 	}
-	res.Notes = pl.notes
+	res.Notes = append(notes, pl.Notes...)
 	return res, nil
 }
 

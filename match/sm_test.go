@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"loopmatch/expr/notation"
+	"loopmatch/passarino"
 )
 
 // runFile matches the first block of a file and returns the result.
@@ -135,5 +136,31 @@ func TestDipoleC7C8(t *testing.T) {
 		if math.Abs(real(v)-c.at4) > 1e-8 {
 			t.Errorf("%s at x = 4: %.10f, PHYSICS.md %.8f", c.file, real(v), c.at4)
 		}
+	}
+}
+
+// TestRhoOneLoop computes Δρ = Π_WW(0)/M_W² − Π_ZZ(0)/M_Z² from the t–b loops of the W and Z
+// self-energies at zero momentum and compares with M. Veltman, Nucl. Phys. B123 (1977) 89:
+// Δρ = N_c g²/(64π² M_W²) F(m_t², m_b²), F(a, b) = a + b − 2ab/(a − b) ln(a/b) (the file strips
+// g²/M_W²). The weak angle drops out and the poles cancel.
+func TestRhoOneLoop(t *testing.T) {
+	p, err := notation.ParseFile("../testdata/sm/rho_oneloop.lm")
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, _ := p.Amplitude("drho")
+	s, _, err := Reduce(p, a.Body, passarino.Small{}, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !s.Coef(-1).IsZero() || !s.Coef(-2).IsZero() {
+		t.Errorf("poles do not cancel: %v", s)
+	}
+	want, err := p.ParseExpr("Nc/(64*pi^2)*(mt^2 + mb^2 - 2*mt^2*mb^2/(mt^2 - mb^2)*log(mt^2/mb^2))")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := s.Coef(0); !got.Equal(want) {
+		t.Errorf("Δρ = %s\nwant %s", got.Pretty(), want.Pretty())
 	}
 }

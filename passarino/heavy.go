@@ -73,9 +73,10 @@ func (s Small) atomDegree(a expr.Atom) (int, error) {
 			}
 		}
 		return n, nil
-	case expr.Chain:
+	case expr.Chain, expr.Trace:
+		elems, _, _ := stringOf(x)
 		n := 0
-		for _, e := range x.Elems {
+		for _, e := range elems {
 			if e.Op == expr.NCSlash && s.isMom(e.Args[0]) {
 				n++
 			}

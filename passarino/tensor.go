@@ -3,6 +3,7 @@ package passarino
 import (
 	"fmt"
 	"math/big"
+	"slices"
 
 	"loopmatch/expr"
 	"loopmatch/loops/vacuum"
@@ -18,6 +19,17 @@ import (
 // of the term are done by expr's canonical form (g(i, j) renames, p[i] q[i] = p.q, p[i] in a
 // chain becomes slash(p)); gamma(i) … gamma(i) pairs inside chains are left for the Dirac algebra.
 
+// stringOf returns the matrices of a chain or a trace and how to rebuild the atom from new ones.
+func stringOf(a expr.Atom) ([]expr.NC, func([]expr.NC) expr.Atom, bool) {
+	switch x := a.(type) {
+	case expr.Chain:
+		return x.Elems, func(e []expr.NC) expr.Atom { return expr.NewChain(e) }, true
+	case expr.Trace:
+		return x.Elems, func(e []expr.NC) expr.Atom { return expr.NewTrace(e) }, true
+	}
+	return nil, nil, false
+}
+
 // freshIndices returns n index names that do not occur in the term.
 func freshIndices(t expr.Term, n int) []string {
 	used := map[string]bool{}
@@ -31,8 +43,9 @@ func freshIndices(t expr.Term, n int) []string {
 			for _, s := range x.S {
 				used[s.Name] = true
 			}
-		case expr.Chain:
-			for _, e := range x.Elems {
+		case expr.Chain, expr.Trace:
+			elems, _, _ := stringOf(x)
+			for _, e := range elems {
 				for _, arg := range e.Args {
 					used[arg] = true
 				}
@@ -138,10 +151,11 @@ func reduceVacuumTerm(t expr.Term, k string, scalarInt scalarFunc) (expr.Expr, v
 					rank++
 				}
 			}
-		case expr.Chain:
-			for _, el := range x.Elems {
+		case expr.Chain, expr.Trace:
+			elems, _, _ := stringOf(x)
+			for _, el := range elems {
 				if el.Op == expr.NCSlash && el.Args[0] == k {
-					rank++
+					rank += max(a.Pow, 1)
 				}
 			}
 		}
@@ -212,8 +226,12 @@ func reduceVacuumTerm(t expr.Term, k string, scalarInt scalarFunc) (expr.Expr, v
 				nt.Atoms = append(nt.Atoms, expr.AtomPow{A: l, Pow: a.Pow})
 				continue
 			}
-		case expr.Chain:
-			elems := append([]expr.NC{}, x.Elems...)
+		case expr.Chain, expr.Trace:
+			orig, rebuild, _ := stringOf(x)
+			if a.Pow != 1 && slices.ContainsFunc(orig, func(el expr.NC) bool { return el.Op == expr.NCSlash && el.Args[0] == k }) {
+				return expr.Expr{}, info, fmt.Errorf("a power of %s depends on the loop momentum; write the factors separately", x.Key())
+			}
+			elems := append([]expr.NC{}, orig...)
 			changed := false
 			for i, el := range elems {
 				if el.Op == expr.NCSlash && el.Args[0] == k {
@@ -224,7 +242,7 @@ func reduceVacuumTerm(t expr.Term, k string, scalarInt scalarFunc) (expr.Expr, v
 				}
 			}
 			if changed {
-				nt.Atoms = append(nt.Atoms, expr.AtomPow{A: expr.NewChain(elems), Pow: a.Pow})
+				nt.Atoms = append(nt.Atoms, expr.AtomPow{A: rebuild(elems), Pow: a.Pow})
 				continue
 			}
 		}

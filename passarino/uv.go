@@ -123,8 +123,9 @@ func uvDegree(t expr.Term, k string) (int, []string, error) {
 					deg++
 				}
 			}
-		case expr.Chain:
-			for _, el := range x.Elems {
+		case expr.Chain, expr.Trace:
+			elems, _, _ := stringOf(x)
+			for _, el := range elems {
 				if el.Op == expr.NCSlash && el.Args[0] == k {
 					deg++
 				}

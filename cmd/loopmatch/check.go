@@ -87,6 +87,10 @@ func diracKinematics(p *notation.Program) dirac.Kinematics {
 // file's declared indices as names for contracted pairs.
 func simplifyChains(p *notation.Program, e expr.Expr) (expr.Expr, error) {
 	opt := dirac.Options{Dummies: p.NamesOf(notation.KindIndex), ColourDummies: p.NamesOf(notation.KindAdjoint)}
+	e, err := dirac.EvalTraces(e, opt)
+	if err != nil {
+		return expr.Expr{}, err
+	}
 	s, _, err := dirac.Simplify(e, diracKinematics(p), opt)
 	return s, err
 }

@@ -11,7 +11,7 @@ import (
 
 	"loopmatch/expr"
 	"loopmatch/expr/notation"
-	"loopmatch/loops/vacuum"
+	"loopmatch/match"
 	"loopmatch/passarino"
 )
 
@@ -22,9 +22,10 @@ var reduceCmd = &command{
 	help: `reduce prints each amplitude of FILE with its loop integrals reduced. With --expand, the
 propagators are Taylor-expanded in the listed small quantities (external momenta and light
 masses) to the given total order, tensor integrals are reduced by symmetric integration and the
-vacuum integrals are evaluated exactly in d; the result is printed as an eps-expansion (poles and
-finite part, MS-bar, the loop factor i/(16 pi^2) included). Integrals without a scale after the
-expansion are zero in dimensional regularisation and are listed.`,
+vacuum integrals are evaluated exactly in d; fermion-loop traces and Dirac chains are simplified
+(NDR, on-shell external legs); the result is printed as an eps-expansion (poles and finite part,
+MS-bar, the loop factor i/(16 pi^2) included). Integrals without a scale after the expansion are
+zero in dimensional regularisation and are listed.`,
 }
 
 type reduceOpts struct {
@@ -35,7 +36,7 @@ type reduceOpts struct {
 func reduceFlags() (*flag.FlagSet, *reduceOpts) {
 	fs := flag.NewFlagSet("reduce", flag.ContinueOnError)
 	o := &reduceOpts{format: newFormat("text", "latex", "json")}
-	fs.StringVar(&o.expand, "expand", "", "small quantities and order, e.g. p,q,m1:2")
+	fs.StringVar(&o.expand, "expand", "", "small quantities and order, e.g. p,q,m1:2 (:0 when nothing is small)")
 	fs.Var(o.format, "format", "output format: text, latex or json")
 	return fs, o
 }
@@ -58,6 +59,9 @@ func parseExpand(p *notation.Program, s string) (passarino.Small, error) {
 	sm := passarino.Small{Order: n}
 	for _, name := range strings.Split(names, ",") {
 		name = strings.TrimSpace(name)
+		if name == "" {
+			continue // "--expand :0": nothing small, vacuum integrals only
+		}
 		d, ok := p.Decls[name]
 		switch {
 		case !ok:
@@ -106,17 +110,12 @@ func runReduce(args []string, out, errOut io.Writer) int {
 	}
 	var res []reduced
 	for _, a := range p.Amplitudes {
-		r, info, err := passarino.Heavy(a.Body, small)
+		s, notes, err := match.Reduce(p, a.Body, small, match.Options{})
 		if err != nil {
 			fmt.Fprintf(errOut, "%s: amplitude %s: %v\n", a.Pos, a.Name, err)
 			return exitBadInput
 		}
-		s, err := vacuum.ExpandEps(r, 1, p.Positive)
-		if err != nil {
-			fmt.Fprintf(errOut, "%s: amplitude %s: %v\n", a.Pos, a.Name, err)
-			return exitBadInput
-		}
-		res = append(res, reduced{a.Name, s, info.Scaleless})
+		res = append(res, reduced{a.Name, s, notes})
 	}
 	what := fmt.Sprintf("heavy-mass expansion in %s to order %d; MS-bar, d = 4 - 2*eps, NDR", strings.Join(slices.Concat(small.Momenta, small.Masses), ", "), small.Order)
 	switch o.format.value {
@@ -124,7 +123,7 @@ func runReduce(args []string, out, errOut io.Writer) int {
 		type jamp struct {
 			Name      string            `json:"name"`
 			Coeffs    map[string]string `json:"eps_coefficients"`
-			Scaleless []string          `json:"scaleless_set_to_zero,omitempty"`
+			Notes     []string          `json:"notes,omitempty"`
 		}
 		doc := struct {
 			File       string `json:"file"`
@@ -132,7 +131,7 @@ func runReduce(args []string, out, errOut io.Writer) int {
 			Amplitudes []jamp `json:"amplitudes"`
 		}{File: p.File, Method: what}
 		for _, r := range res {
-			j := jamp{Name: r.name, Coeffs: map[string]string{}, Scaleless: r.scaleless}
+			j := jamp{Name: r.name, Coeffs: map[string]string{}, Notes: r.scaleless}
 			for k := -2; k <= 0; k++ {
 				j.Coeffs[strconv.Itoa(k)] = r.series.Coef(k).String()
 			}
@@ -185,7 +184,7 @@ func runReduce(args []string, out, errOut io.Writer) int {
 			}
 			fmt.Fprintln(out, "  + O(eps)")
 			for _, s := range r.scaleless {
-				fmt.Fprintf(out, "  scaleless, set to zero: %s\n", s)
+				fmt.Fprintf(out, "  note: %s\n", s)
 			}
 		}
 	}

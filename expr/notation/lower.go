@@ -12,6 +12,7 @@ import (
 	"github.com/alecthomas/participle/v2/lexer"
 
 	"loopmatch/expr"
+	"loopmatch/expr/dirac"
 )
 
 // vkind tells scalars (expressions, possibly with Dirac strings) from vectors (linear
@@ -861,6 +862,7 @@ var integralArity = map[string][]int{
 var functionArity = map[string]int{
 	"gamma": 1, "slash": 1, "sigma": 2, "ubar": 1, "vbar": 1, "u": 1, "v": 1, "g": 2, "levi": 4,
 	"T": 1, "f": 3, "delta": 2, "log": 1, "Li2": 1, "Cl2": 1, "sqrt": 1, "conj": 1,
+	"tr": 1, "ctr": 1,
 }
 
 // operatorOnly are the functions that exist only in operator definitions.
@@ -968,6 +970,8 @@ func (l *lowerer) builtinCallErr(r *NameRef, name string, n int) (value, error) 
 		return scalar(e), nil
 	case "conj":
 		return l.conj(args[0])
+	case "tr", "ctr":
+		return l.trace(name, args[0])
 	case "gamma", "sigma", "g":
 		var idx []string
 		for _, a := range args {
@@ -1099,6 +1103,61 @@ func (l *lowerer) builtinCallErr(r *NameRef, name string, n int) (value, error) 
 		return scalar(expr.FromAtom(expr.NewDelta(s[0], s[1]), 1)), nil
 	}
 	return value{}, errorf(r.Pos, "unknown function %s", name)
+}
+
+// trace lowers tr(X), the Dirac trace of a string of Dirac matrices, and ctr(X), the colour
+// trace (fundamental representation) of a string of generators T(a), evaluated at once.
+func (l *lowerer) trace(name string, a *Expr) (value, error) {
+	v, err := l.expr(a)
+	if err != nil {
+		return value{}, err
+	}
+	if v.kind != vScalar {
+		return value{}, errorf(a.Pos, "%s takes a string of matrices, found a vector", name)
+	}
+	res := expr.Zero()
+	for _, t := range v.e.Terms() {
+		for _, at := range t.Atoms {
+			if _, ok := at.A.(expr.Chain); ok {
+				return value{}, errorf(a.Pos, "%s: spinors cannot stand inside a trace", name)
+			}
+		}
+		for _, n := range t.NC {
+			colour := n.Op == expr.NCT
+			if n.IsBar() || n.IsSpinor() {
+				return value{}, errorf(a.Pos, "%s: spinors cannot stand inside a trace", name)
+			}
+			if colour != (name == "ctr") {
+				if colour {
+					return value{}, errorf(a.Pos, "tr is the Dirac trace: take colour traces with ctr(T(a) …)")
+				}
+				return value{}, errorf(a.Pos, "ctr is the colour trace: take Dirac traces with tr(…)")
+			}
+		}
+		rest := t
+		rest.NC = nil
+		var f expr.Expr
+		if name == "tr" {
+			f = expr.FromAtom(expr.NewTrace(append([]expr.NC{}, t.NC...)), 1)
+		} else {
+			adj := make([]string, len(t.NC))
+			for i, n := range t.NC {
+				adj[i] = n.Args[0]
+			}
+			c, err := dirac.ColourTrace(adj, dirac.Options{})
+			if err != nil {
+				return value{}, errorf(a.Pos, "ctr: %v", err)
+			}
+			f = c
+		}
+		x, err := expr.FromTerm(rest).Mul(f)
+		if err != nil {
+			return value{}, errorf(a.Pos, "%v", err)
+		}
+		res = res.Add(x)
+	}
+	// The indices inside the trace count like those of the string.
+	return value{kind: vScalar, e: res, idx: v.idx}, nil
 }
 
 func plural(n int) string {

@@ -239,3 +239,22 @@ func TestJuxtapositionAfterName(t *testing.T) {
 		}
 	}
 }
+
+func TestTraces(t *testing.T) {
+	p, err := Parse("t.lm", []byte(header+"adjoint c1 c2\namplitude T1 = tr(slash(q) slash(p) + M)\namplitude T2 = ctr(T(c1) T(c1))\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := map[string]string{"T1": "M*tr() + tr(slash(q) slash(p))", "T2": "Nc^2/2 - 1/2"}
+	for n, w := range want {
+		a, _ := p.Amplitude(n)
+		if a.Body.String() != w {
+			t.Errorf("%s = %s, want %s", n, a.Body, w)
+		}
+	}
+	for _, src := range []string{"amplitude X = tr(ubar(b) u(a))\n", "adjoint c1\namplitude X = tr(T(c1))\n", "amplitude X = ctr(gamma(al) gamma(al))\n"} {
+		if _, err := Parse("t.lm", []byte(header+src)); err == nil {
+			t.Errorf("%q accepted", src)
+		}
+	}
+}
