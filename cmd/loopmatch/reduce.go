@@ -121,9 +121,9 @@ func runReduce(args []string, out, errOut io.Writer) int {
 	switch o.format.value {
 	case "json":
 		type jamp struct {
-			Name      string            `json:"name"`
-			Coeffs    map[string]string `json:"eps_coefficients"`
-			Notes     []string          `json:"notes,omitempty"`
+			Name   string            `json:"name"`
+			Coeffs map[string]string `json:"eps_coefficients"`
+			Notes  []string          `json:"notes,omitempty"`
 		}
 		doc := struct {
 			File       string `json:"file"`
