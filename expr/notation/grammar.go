@@ -15,6 +15,7 @@ var keywords = []string{
 	"couplings", "complex", "masses", "light", "index", "momenta", "symbols", "gauge", "colour",
 	"adjoint", "external", "amplitude", "define", "counterterm", "operator", "match", "loop",
 	"normalization", "expand", "scheme", "scale", "expect", "route", "ratio", "anomalous", "row", "values",
+	"for", "initial",
 }
 
 func keywordPattern() string {
@@ -180,8 +181,8 @@ type ExpandLine struct {
 	Order string  `parser:"\"to\" \"order\" @Number"`
 }
 
-// AnomalousStmt is an anomalous-dimension block (a later issue fills in its use):
-// "anomalous NAME onto Q1, Q2: …" — reserved here so the keyword cannot be taken as a name.
+// AnomalousStmt is an anomalous-dimension block, "anomalous NAME onto Q1, Q2:" followed by
+// its lines (docs/RUNNING.md); adm.go validates it.
 type AnomalousStmt struct {
 	Pos  lexer.Position
 	Name string  `parser:"\"anomalous\" @Ident"`
@@ -189,12 +190,18 @@ type AnomalousStmt struct {
 	Rows []*Row  `parser:"@@*"`
 }
 
-// Row is "row ORDER NAME: e1, e2, …" of an anomalous-dimension block.
+// Row is one line of an anomalous-dimension block: "row ORDER NAME: e1, e2, …" (the row of
+// operator NAME in γ^{(ORDER)}), "for Nc = 3, nf = 5" (the only colour and flavour numbers at
+// which the block holds), "scheme NDR" (the scheme of γ^{(1)}) or "initial Q2 = 1, …" (the
+// coefficients at the starting scale of an evolution).
 type Row struct {
 	Pos     lexer.Position
-	Order   string  `parser:"\"row\" @Number"`
-	Op      string  `parser:"@Ident \":\""`
-	Entries []*Expr `parser:"@@ ( \",\" @@ )*"`
+	Order   string    `parser:"(  \"row\" @Number"`
+	Op      *Name     `parser:"   @@ \":\""`
+	Entries []*Expr   `parser:"   @@ ( \",\" @@ )*"`
+	For     []*Assign `parser:"| \"for\" @@ ( \",\" @@ )*"`
+	Scheme  []*Name   `parser:"| \"scheme\" @@+"`
+	Initial []*Assign `parser:"| \"initial\" @@ ( \",\" @@ )* )"`
 }
 
 // Expr is a sum of products with an optional leading minus.

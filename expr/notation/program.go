@@ -155,6 +155,7 @@ type Program struct {
 	Matches    []*MatchBlock
 	Values     map[string]expr.Expr
 	ValueOrder []string
+	adms       []*ADMBlock // anomalous-dimension blocks in file order (adm.go)
 	defines    map[string]*DefineStmt
 	src        []byte                    // the file's source
 	exprSrc    []byte                    // the source of an expression being parsed by ParseExpr
@@ -867,26 +868,18 @@ func (p *Program) ratio(a *Assign) (Ratio, error) {
 	return Ratio{Name: a.Name, Num: nt.Mono[0].Var, Den: dt.Mono[0].Var}, nil
 }
 
+// anomalous validates an anomalous-dimension block (adm.go) and keeps it. Block names have
+// their own name space: they are not declarations and cannot be used in expressions.
 func (p *Program) anomalous(a *AnomalousStmt) error {
-	for _, o := range a.Ops {
-		d, ok := p.Decls[o.Value]
-		if !ok || d.Kind != KindOperator {
-			return errorf(o.Pos, "anomalous: %s is not an operator of this file", o.Value)
+	for _, b := range p.adms {
+		if b.Name == a.Name {
+			return errorf(a.Pos, "anomalous: a second block named %s (the first is at %s)", a.Name, b.Pos)
 		}
 	}
-	for _, r := range a.Rows {
-		if len(r.Entries) != len(a.Ops) {
-			return errorf(r.Pos, "anomalous: row %s has %d entries, the block has %d operators", r.Op, len(r.Entries), len(a.Ops))
-		}
-		for _, e := range r.Entries {
-			v, err := p.lowerScalar(e, false)
-			if err != nil {
-				return err
-			}
-			if _, ok := v.AsRatFunc(); !ok {
-				return errorf(e.Pos, "anomalous: entries must be rational expressions in parameters")
-			}
-		}
+	b, err := p.admBlock(a)
+	if err != nil {
+		return err
 	}
-	return p.declare(a.Name, KindDefine, a.Pos)
+	p.adms = append(p.adms, b)
+	return nil
 }
