@@ -120,6 +120,7 @@ type matchOut struct {
 	res     *match.Result
 	numbers []complex128 // per coefficient, when values were given
 	numErr  error
+	at      string // the values used, as text
 }
 
 func runMatch(args []string, out, errOut io.Writer) int {
@@ -169,6 +170,7 @@ func runMatch(args []string, out, errOut io.Writer) int {
 				fmt.Fprintf(errOut, "loopmatch match: %v\n", err)
 				return exitBadInput
 			}
+			mo.at = valuesText(p, vals)
 			for _, c := range r.Coeffs {
 				v, err := c.Value.Eval(vals)
 				if err != nil {
@@ -253,7 +255,7 @@ func writeMatchText(w io.Writer, p *notation.Program, rs []matchOut) {
 		if mo.numErr != nil {
 			fmt.Fprintf(w, "numerical values: not available (%v)\n", mo.numErr)
 		} else if len(mo.numbers) > 0 {
-			fmt.Fprintln(w, "numerical values")
+			fmt.Fprintf(w, "numerical values at %s\n", mo.at)
 			for i, c := range r.Coeffs {
 				fmt.Fprintf(w, "  C_%s = %s\n", c.Operator, formatComplex(mo.numbers[i]))
 			}
@@ -268,7 +270,33 @@ func writeMatchText(w io.Writer, p *notation.Program, rs []matchOut) {
 				fmt.Fprintf(w, "  %s\n", n)
 			}
 		}
+		all := slices.Concat(r.Checks, r.Expectations)
+		failed := 0
+		for _, c := range all {
+			if !c.Passed {
+				failed++
+			}
+		}
+		if failed == 0 {
+			fmt.Fprintf(w, "result: all %d checks passed\n", len(all))
+		} else {
+			fmt.Fprintf(w, "result: %d of %d checks FAILED\n", failed, len(all))
+		}
 	}
+}
+
+// valuesText lists the numerical values used, in declaration order.
+func valuesText(p *notation.Program, vals map[string]complex128) string {
+	var parts []string
+	names := append(slices.Clone(p.DeclOrder), "mu")
+	for _, n := range names {
+		v, ok := vals[n]
+		if !ok {
+			continue
+		}
+		parts = append(parts, n+" = "+formatComplex(v))
+	}
+	return strings.Join(parts, ", ")
 }
 
 func writeMatchLaTeX(w io.Writer, p *notation.Program, rs []matchOut) {
