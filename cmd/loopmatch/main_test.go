@@ -141,3 +141,28 @@ func TestReduceExpand(t *testing.T) {
 		t.Errorf("exit %d: %s", code, errOut)
 	}
 }
+
+// TestMatchGolden runs the demo files through `loopmatch match` and compares with golden
+// outputs; the demo must pass all its checks (exit 0).
+func TestMatchGolden(t *testing.T) {
+	for _, name := range []string{"dipole_vlf", "box_vlf", "tree_scalar"} {
+		out, errOut, code := runCLI("match", "../../testdata/"+name+".lm")
+		if code != exitOK {
+			t.Fatalf("match %s: exit %d: %s\n%s", name, code, errOut, out)
+		}
+		golden := filepath.Join("../../testdata/golden", "match-"+name+".text")
+		if *update {
+			if err := os.WriteFile(golden, []byte(out), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			continue
+		}
+		want, err := os.ReadFile(golden)
+		if err != nil {
+			t.Fatalf("%v (run go test ./cmd/loopmatch -update)", err)
+		}
+		if out != string(want) {
+			t.Errorf("match %s differs from %s:\n%s", name, golden, out)
+		}
+	}
+}
