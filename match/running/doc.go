@@ -11,6 +11,10 @@
 //     with row i, column j as the papers print it (row = operator that mixes, column = operator
 //     it mixes into).
 //
+// Anomalous dimensions come from blocks of .lm files (BlockMatrices, FromBlock). The shipped
+// tables (Tables, LookupTable) are such files, embedded in the program, each with its published
+// source; they are the only copy of their numbers. docs/RUNNING.md describes both.
+//
 // All numbers are float64: this package is at the numeric edge of the program. Every function
 // that a user can reach returns an error for an input it cannot honour (μ ≤ 0, a Landau pole,
 // αs beyond the perturbative limit, degenerate eigenvalue differences), never NaN or a panic.

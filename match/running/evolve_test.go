@@ -26,8 +26,9 @@ var magic = []struct{ a, aTol, h, hTol float64 }{
 }
 
 func TestMagicNumbers(t *testing.T) {
-	tables := map[string]*mat.Dense{"standard": ratMatrix(deltaF1DipoleRat()), "CMM": ratMatrix(cmmDipoleRat())}
-	for name, g0 := range tables {
+	// Both shipped tables, read through the notation.
+	for _, name := range []string{"deltaf1_dipole_lo", "deltaf1_cmm_lo"} {
+		g0 := ratMatrix(exactTable(t, name, 0, 3, 5))
 		ev, err := Evolution{G0: g0, Nf: 5}.Prepare()
 		if err != nil {
 			t.Fatal(err)
@@ -56,13 +57,13 @@ func TestMagicNumbers(t *testing.T) {
 	}
 }
 
-// The standard-basis table is the Chetyrkin–Misiak–Münz table in the other basis: exactly
-// γ_Q = R γ_P R⁻¹ (rational arithmetic), and its 6×6 block is the standard LO matrix of
-// Buchalla–Buras–Lautenbacher (PHYSICS.md), remembered independently of the CMM one.
+// The shipped standard-basis table is the shipped Chetyrkin–Misiak–Münz table in the other
+// basis: exactly γ_Q = R γ_P R⁻¹ (rational arithmetic), and its 6×6 block is the standard LO
+// matrix of Buchalla–Buras–Lautenbacher (PHYSICS.md), remembered independently of the CMM one.
 func TestBasisChange(t *testing.T) {
 	R := stdFromCMM()
-	P := cmmDipoleRat()
-	Q := deltaF1DipoleRat()
+	P := exactTable(t, "deltaf1_cmm_lo", 0, 3, 5)
+	Q := exactTable(t, "deltaf1_dipole_lo", 0, 3, 5)
 	mul := func(a, b [][]*big.Rat) [][]*big.Rat {
 		out := make([][]*big.Rat, len(a))
 		for i := range a {
@@ -86,7 +87,7 @@ func TestBasisChange(t *testing.T) {
 			}
 		}
 	}
-	block := deltaF1FourQuarkRat(3, 5)
+	block := exactTable(t, "deltaf1_lo", 0, 3, 5)
 	for i := 0; i < 6; i++ {
 		for j := 0; j < 6; j++ {
 			if Q[i][j].Cmp(block[i][j]) != 0 {
