@@ -18,7 +18,7 @@ import (
 var matchCmd = &command{
 	name:    "match",
 	summary: "compute the Wilson coefficients of the match blocks of a .lm file",
-	usage:   "FILE [--set name=value,…] [--format text|latex|json]",
+	usage:   "FILE [--set name=value,…] [--format text|latex|json] [--evolve-to MU]",
 	help: `match runs every match block of FILE: the full-theory amplitudes are expanded in the
 declared small quantities, their loop integrals reduced and evaluated exactly in the heavy
 masses, the Dirac algebra and the on-shell kinematics applied, the result expanded in eps,
@@ -32,8 +32,9 @@ do not span (they are printed), 2 bad input.`,
 }
 
 type matchOpts struct {
-	set    string
-	format *format
+	set      string
+	format   *format
+	evolveTo string // --evolve-to (issue 8, evolve.go)
 }
 
 func matchFlags() (*flag.FlagSet, *matchOpts) {
@@ -41,6 +42,7 @@ func matchFlags() (*flag.FlagSet, *matchOpts) {
 	o := &matchOpts{format: newFormat("text", "latex", "json")}
 	fs.StringVar(&o.set, "set", "", "numerical values, e.g. mF=1000,mS=1500,mu=1500")
 	fs.Var(o.format, "format", "output format: text, latex or json")
+	fs.StringVar(&o.evolveTo, "evolve-to", "", "also run the numerical coefficients from the match scale to this scale in GeV with the file's anomalous block")
 	return fs, o
 }
 
@@ -184,6 +186,9 @@ func runMatch(args []string, out, errOut io.Writer) int {
 			code = exitCheck
 		}
 		results = append(results, mo)
+	}
+	if o.evolveTo != "" { // --evolve-to (issue 8): evolve.go runs and prints match and evolution
+		return finishEvolveTo(out, errOut, p, results, set, o.evolveTo, o.format.value, code)
 	}
 	switch o.format.value {
 	case "json":
