@@ -237,20 +237,22 @@ func (s Small) splitMass(m2 expr.RatFunc) (h, l expr.RatFunc, err error) {
 // expandProp returns the Taylor expansion of 1/D^n, D = (k + P)² − M² (k the loop momentum or
 // absent), in the small quantities: D = D0 + δ with D0 = k² − H, δ = 2k·P + P² − L, and
 // 1/D^n = Σ_j (−1)^j binom(n+j−1, j) δ^j / D0^{n+j}, up to the order of s.
-func (s Small) expandProp(p expr.Prop, n int, loop string) (expr.Expr, error) {
-	kc := p.K.Coef(loop)
-	var P expr.Mom
-	switch {
-	case loop == "" || kc.Sign() == 0:
-		P = p.K
-		loop = ""
-	case kc.Cmp(big.NewRat(1, 1)) == 0:
-		P = p.K.Sub(expr.MomOf(loop))
-	case kc.Cmp(big.NewRat(-1, 1)) == 0:
-		P = p.K.Add(expr.MomOf(loop)).Scale(big.NewRat(-1, 1))
-	default:
-		return expr.Expr{}, fmt.Errorf("propagator %s: the loop momentum must enter with coefficient ±1", p.Key())
+func (s Small) expandProp(p expr.Prop, n int, loops []string) (expr.Expr, error) {
+	// K = Lp + P with Lp the loop momenta (coefficients ±1 each, any number of loops) and P the
+	// external part.
+	var lp, ext []expr.MomTerm
+	for _, t := range p.K {
+		if slices.Contains(loops, t.Name) {
+			if c := new(big.Rat).Abs(t.Coef); c.Cmp(big.NewRat(1, 1)) != 0 {
+				return expr.Expr{}, fmt.Errorf("propagator %s: a loop momentum must enter with coefficient ±1", p.Key())
+			}
+			lp = append(lp, t)
+		} else {
+			ext = append(ext, t)
+		}
 	}
+	Lp, P := expr.NewMom(lp...), expr.NewMom(ext...)
+	loop := len(Lp) > 0
 	for _, t := range P {
 		if !s.isMom(t.Name) {
 			return expr.Expr{}, fmt.Errorf("propagator %s depends on %s, which is not declared small (expand it, or use the general route)", p.Key(), t.Name)
@@ -260,7 +262,7 @@ func (s Small) expandProp(p expr.Prop, n int, loop string) (expr.Expr, error) {
 	if err != nil {
 		return expr.Expr{}, err
 	}
-	if loop == "" && h.IsZero() {
+	if !loop && h.IsZero() {
 		for _, os := range s.OnShell {
 			if os.Mom.Equal(P) || os.Mom.Equal(P.Scale(big.NewRat(-1, 1))) {
 				// 1/(P² − L)^n on the leg's mass shell.
@@ -277,14 +279,14 @@ func (s Small) expandProp(p expr.Prop, n int, loop string) (expr.Expr, error) {
 		}
 		return expr.Expr{}, fmt.Errorf("propagator %s has no heavy mass and its momentum is not an external leg's; a light tree-level propagator cannot be expanded", p.Key())
 	}
-	// δ = 2k·P + P² − L
+	// δ = 2 Lp·P + P² − L
 	delta := dotMom(P, P).Sub(expr.FromRF(l))
-	if loop != "" {
-		delta = delta.Add(dotMom(expr.MomOf(loop), P).Scale(expr.RFInt(2)))
+	if loop {
+		delta = delta.Add(dotMom(Lp, P).Scale(expr.RFInt(2)))
 	}
 	var d0 expr.Expr // 1/D0 as a factor
-	if loop != "" {
-		d0 = expr.FromAtom(expr.NewProp(expr.MomOf(loop), h), -1)
+	if loop {
+		d0 = expr.FromAtom(expr.NewProp(Lp, h), -1)
 	} else {
 		inv, err := h.Neg().Inv()
 		if err != nil {
@@ -316,6 +318,16 @@ func (s Small) expandProp(p expr.Prop, n int, loop string) (expr.Expr, error) {
 	return res, nil
 }
 
+// dependsOnAny reports whether a momentum combination contains one of the loop momenta.
+func dependsOnAny(k expr.Mom, loops []string) bool {
+	for _, t := range k {
+		if slices.Contains(loops, t.Name) {
+			return true
+		}
+	}
+	return false
+}
+
 func dotMom(a, b expr.Mom) expr.Expr {
 	res := expr.Zero()
 	for _, x := range a {
@@ -334,14 +346,7 @@ func (s Small) ExpandProps(e expr.Expr) (expr.Expr, Info, error) {
 	var info Info
 	var out []expr.Expr
 	for _, t := range e.Terms() {
-		loop := ""
-		switch len(t.Loops) {
-		case 0:
-		case 1:
-			loop = t.Loops[0]
-		default:
-			return expr.Expr{}, info, fmt.Errorf("%d-loop terms are not expanded here yet", len(t.Loops))
-		}
+		loops := t.Loops
 		rest := expr.Term{Coef: t.Coef, NC: t.NC, Loops: t.Loops}
 		var props []expr.AtomPow
 		for _, a := range t.Atoms {
@@ -355,7 +360,7 @@ func (s Small) ExpandProps(e expr.Expr) (expr.Expr, Info, error) {
 		// further by as much, and truncate once the term is complete.
 		var onshell, other []expr.AtomPow
 		for _, pa := range props {
-			if pa.A.(expr.Prop).K.Coef(loop).Sign() == 0 || loop == "" {
+			if !dependsOnAny(pa.A.(expr.Prop).K, loops) {
 				if h, _, err := s.splitMass(pa.A.(expr.Prop).M2); err == nil && h.IsZero() {
 					onshell = append(onshell, pa)
 					continue
@@ -365,7 +370,7 @@ func (s Small) ExpandProps(e expr.Expr) (expr.Expr, Info, error) {
 		}
 		acc := expr.FromTerm(rest)
 		for _, pa := range onshell {
-			x, err := s.expandProp(pa.A.(expr.Prop), -pa.Pow, loop)
+			x, err := s.expandProp(pa.A.(expr.Prop), -pa.Pow, loops)
 			if err != nil {
 				return expr.Expr{}, info, err
 			}
@@ -380,7 +385,7 @@ func (s Small) ExpandProps(e expr.Expr) (expr.Expr, Info, error) {
 		wide := s
 		wide.Order = s.Order - min(low, 0)
 		for _, pa := range other {
-			x, err := wide.expandProp(pa.A.(expr.Prop), -pa.Pow, loop)
+			x, err := wide.expandProp(pa.A.(expr.Prop), -pa.Pow, loops)
 			if err != nil {
 				return expr.Expr{}, info, err
 			}

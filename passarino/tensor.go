@@ -85,8 +85,9 @@ func pairings(slots []int, f func(pairs [][2]int)) {
 // maxRank bounds the tensor rank of a vacuum integral ((2n−1)!! pairings).
 const maxRank = 12
 
-// ReduceVacuum reduces every one-loop term of e, whose propagators all have the form k² − M²,
-// to Tad masters exact in d, times i/(16π²). Terms without loops pass through unchanged.
+// ReduceVacuum reduces every loop term of e whose propagators depend on loop momenta only:
+// one-loop terms to Tad masters, two-loop terms to Tad·Tad products and the sunset master, exact
+// in d, times the loop factors (i/(16π²) per loop). Terms without loops pass through unchanged.
 func ReduceVacuum(e expr.Expr) (expr.Expr, vacuum.Info, error) {
 	var info vacuum.Info
 	var out []expr.Expr
@@ -97,7 +98,13 @@ func ReduceVacuum(e expr.Expr) (expr.Expr, vacuum.Info, error) {
 			continue
 		}
 		if len(t.Loops) > 1 {
-			return expr.Expr{}, info, fmt.Errorf("ReduceVacuum: %d-loop term; two-loop reduction is not available here", len(t.Loops))
+			r, ti, err := reduceMultiLoopTerm(t, t.Loops)
+			if err != nil {
+				return expr.Expr{}, info, err
+			}
+			info.Merge(ti)
+			out = append(out, r) // the two-loop measure is included
+			continue
 		}
 		k := t.Loops[0]
 		r, ti, err := reduceVacuumTerm(t, k, vacuum.OneLoop)

@@ -60,10 +60,6 @@ func OneLoop(a int, lines []Line) (expr.Expr, Info, error) {
 	x := expr.RFVar(xVar)
 	// Merge equal masses; move numerator factors into N(x).
 	num := expr.RF(expr.PolyVar(xVar).Pow(a))
-	type den struct {
-		m2 expr.RatFunc
-		n  int
-	}
 	var dens []den
 outer:
 	for _, l := range lines {
@@ -90,9 +86,66 @@ outer:
 		info.Scaleless = append(info.Scaleless, fmt.Sprintf("∫ %s = 0", strings.ReplaceAll(num.String(), xVar, "k^2")))
 		return expr.Zero(), info, nil
 	}
+	fr, err := fractions(num, dens)
+	if err != nil {
+		return expr.Expr{}, info, err
+	}
 	res := expr.Zero()
+	for _, f := range fr {
+		if f.M2.IsZero() {
+			info.Scaleless = append(info.Scaleless, fmt.Sprintf("(%s) ∫ 1/(k^2)^%d = 0", f.Coef, f.Pow))
+			continue
+		}
+		t, err := tadPower(f.M2, f.Pow)
+		if err != nil {
+			return expr.Expr{}, info, err
+		}
+		res = res.Add(t.Scale(f.Coef))
+	}
+	return res, info, nil
+}
+
+// Fraction is one term Coef/(x − M2)^Pow of a partial-fraction decomposition in x = k².
+type Fraction struct {
+	Coef, M2 expr.RatFunc
+	Pow      int
+}
+
+// Fractions decomposes Π_i 1/(x − M2_i)^{Pow_i} (all powers positive; equal masses are merged)
+// into partial fractions in x.
+func Fractions(lines []Line) ([]Fraction, error) {
+	var dens []den
+outer:
+	for _, l := range lines {
+		if l.Pow < 0 {
+			return nil, fmt.Errorf("vacuum: Fractions takes denominators only")
+		}
+		if l.Pow == 0 {
+			continue
+		}
+		for i := range dens {
+			if dens[i].m2.Equal(l.M2) {
+				dens[i].n += l.Pow
+				continue outer
+			}
+		}
+		dens = append(dens, den{l.M2, l.Pow})
+	}
+	return fractions(expr.RFInt(1), dens)
+}
+
+// den is a denominator factor (x − m2)^n.
+type den struct {
+	m2 expr.RatFunc
+	n  int
+}
+
+// fractions returns the fractional part of num(x)/Π (x − M_i)^{n_i} (distinct M_i): the
+// coefficient of 1/(x − M_i)^j is g^{(n_i−j)}(M_i)/(n_i − j)! with g = num/Π_{k≠i}(x − M_k)^{n_k}.
+func fractions(num expr.RatFunc, dens []den) ([]Fraction, error) {
+	x := expr.RFVar(xVar)
+	var out []Fraction
 	for i, di := range dens {
-		// g(x) = N(x) / Π_{k≠i} (x − M_k)^{n_k}
 		g := num
 		for k, dk := range dens {
 			if k == i {
@@ -101,10 +154,9 @@ outer:
 			f, _ := x.Sub(dk.m2).Pow(dk.n)
 			var err error
 			if g, err = g.Div(f); err != nil {
-				return expr.Expr{}, info, err
+				return nil, err
 			}
 		}
-		// c_j = g^{(n−j)}(M_i)/(n−j)!, the coefficient of 1/(x − M_i)^j.
 		deriv := g
 		fact := big.NewInt(1)
 		for order := 0; order < di.n; order++ {
@@ -112,27 +164,17 @@ outer:
 				deriv = deriv.Derivative(xVar)
 				fact.Mul(fact, big.NewInt(int64(order)))
 			}
-			j := di.n - order
 			c, err := deriv.Subst(xVar, di.m2)
 			if err != nil {
-				return expr.Expr{}, info, fmt.Errorf("vacuum: partial fractions: %v", err)
+				return nil, fmt.Errorf("vacuum: partial fractions: %v", err)
 			}
 			c = c.Scale(new(big.Rat).SetFrac(big.NewInt(1), fact))
-			if c.IsZero() {
-				continue
+			if !c.IsZero() {
+				out = append(out, Fraction{Coef: c, M2: di.m2, Pow: di.n - order})
 			}
-			if di.m2.IsZero() {
-				info.Scaleless = append(info.Scaleless, fmt.Sprintf("(%s) ∫ 1/(k^2)^%d = 0", c, j))
-				continue
-			}
-			t, err := tadPower(di.m2, j)
-			if err != nil {
-				return expr.Expr{}, info, err
-			}
-			res = res.Add(t.Scale(c))
 		}
 	}
-	return res, info, nil
+	return out, nil
 }
 
 // tadPower returns ∫ 1/(k² − M2)^n = (−1)^{n−1}/(n−1)! Π_{l=−1}^{n−3} ((2l + 4 − d)/2) · M2^{1−n} Tad(M2),
