@@ -95,20 +95,39 @@ func (b *ADMBlock) At(order, nc, nf int) ([][]*big.Rat, error) {
 	return out, nil
 }
 
-// evalAt substitutes Nc and nf exactly.
+// evalAt evaluates r exactly at Nc = nc, nf = nf: numerator and denominator term by term
+// (cheaper than substituting into the normalised rational function).
 func evalAt(r expr.RatFunc, nc, nf int) (*big.Rat, error) {
-	var err error
-	if r, err = r.Subst("Nc", expr.RFInt(int64(nc))); err != nil {
+	at := map[string]*big.Rat{"Nc": big.NewRat(int64(nc), 1), "nf": big.NewRat(int64(nf), 1)}
+	poly := func(p expr.Poly) (*big.Rat, error) {
+		sum := new(big.Rat)
+		for _, t := range p.Terms() {
+			term := new(big.Rat).Set(t.Coef)
+			for _, vp := range t.Mono {
+				x, ok := at[vp.Var]
+				if !ok {
+					return nil, fmt.Errorf("unexpected variable %s", vp.Var)
+				}
+				for range vp.Exp {
+					term.Mul(term, x)
+				}
+			}
+			sum.Add(sum, term)
+		}
+		return sum, nil
+	}
+	num, err := poly(r.Num())
+	if err != nil {
 		return nil, err
 	}
-	if r, err = r.Subst("nf", expr.RFInt(int64(nf))); err != nil {
+	den, err := poly(r.Den())
+	if err != nil {
 		return nil, err
 	}
-	v, ok := r.ConstValue()
-	if !ok {
-		return nil, fmt.Errorf("not a number after substitution: %s", r)
+	if den.Sign() == 0 {
+		return nil, fmt.Errorf("the denominator %s vanishes", r.Den())
 	}
-	return v, nil
+	return num.Quo(num, den), nil
 }
 
 // admBlock validates an anomalous statement.

@@ -1,6 +1,11 @@
 package running
 
-import "testing"
+import (
+	"io/fs"
+	"testing"
+
+	"loopmatch/expr/notation"
+)
 
 // One 8×8 NLO evolution: the shipped LO ΔF = 1 matrix with the effective dipole mixing and the
 // deterministic stand-in syntheticG1(8) for γ^{(1)} (no published 8×8 γ^{(1)} is shipped), from
@@ -52,6 +57,51 @@ func BenchmarkAlphaS4Loop(b *testing.B) {
 	beta := Beta{Nf: 5, Loops: 4}
 	for b.Loop() {
 		if _, err := beta.AlphaS(0.118, 91.1876, 4.8); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// Parsing and validating every shipped table file through the notation (what the first use of
+// a table costs; later uses are cached).
+func BenchmarkParseTables(b *testing.B) {
+	files, _ := fs.Glob(tableFS, "tables/*.lm")
+	for b.Loop() {
+		for _, f := range files {
+			src, _ := tableFS.ReadFile(f)
+			if _, err := notation.Parse(f, src); err != nil {
+				b.Fatal(err)
+			}
+		}
+	}
+}
+
+// Exact evaluation of the 8×8 ΔF = 1 block at Nc = 3, nf = 5 into a gonum matrix (done once per
+// flavour window of an evolution).
+func BenchmarkBlockMatrices8x8(b *testing.B) {
+	t, err := LookupTable("deltaf1_dipole_lo")
+	if err != nil {
+		b.Fatal(err)
+	}
+	for b.Loop() {
+		if _, _, err := BlockMatrices(t.Block, 3, 5); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// One LO evolution of the 8×8 block from 160 GeV to 4.8 GeV as `loopmatch evolve` runs it:
+// αs from M_Z (one loop), block evaluation, decomposition and U·C.
+func BenchmarkEvolveBlock8x8(b *testing.B) {
+	t, err := LookupTable("deltaf1_dipole_lo")
+	if err != nil {
+		b.Fatal(err)
+	}
+	c := Coupling{AlphaS0: 0.118, Mu0: 91.1876, Nf0: 5, Loops: 1,
+		Thresholds: []Threshold{{Nf: 4, Mass: 1.27}, {Nf: 5, Mass: 4.18}, {Nf: 6, Mass: 162.5}}}
+	c0 := []float64{0, 1, 0, 0, 0, 0, -0.18578056, -0.09426583}
+	for b.Loop() {
+		if _, err := Evolve(FromBlock(t.Block, 3), c, LO, ProductForm, 160, 4.8, c0); err != nil {
 			b.Fatal(err)
 		}
 	}
