@@ -9,6 +9,9 @@ import (
 	"strings"
 	"testing"
 
+	"loopmatch/expr"
+	"loopmatch/expr/notation"
+	"loopmatch/match"
 	"loopmatch/match/running"
 )
 
@@ -365,6 +368,54 @@ func TestMatchEvolveToErrors(t *testing.T) {
 		_, errOut, code := runCLI(append([]string{"match"}, c.args...)...)
 		if code != c.code || !strings.Contains(errOut, c.errPart) {
 			t.Errorf("match %v: exit %d, stderr %q; want exit %d with %q", c.args, code, errOut, c.code, c.errPart)
+		}
+	}
+}
+
+// TestTablesAgainstPoles: the shipped γ^(0) of the current-current pair (exact in Nc) and γ77
+// agree with what match derives from the UV poles of the one-loop matrix elements of the
+// project's own files (testdata/sm), a derivation that shares nothing with the tables.
+func TestTablesAgainstPoles(t *testing.T) {
+	cases := []struct {
+		file, table string
+		amps, ops   []string
+		at          [2]int // row and column of the table block where the derived matrix starts
+	}{
+		{"../../testdata/sm/current_current.lm", "current_current", []string{"Q1_loop", "Q2_loop"}, []string{"Q1", "Q2"}, [2]int{0, 0}},
+		{"../../testdata/sm/dipole77.lm", "deltaf1_dipole_lo", []string{"Q7_loop"}, []string{"Q7"}, [2]int{6, 6}},
+	}
+	for _, c := range cases {
+		p, err := notation.ParseFile(c.file)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var ins []expr.Expr
+		for _, a := range c.amps {
+			amp, ok := p.Amplitude(a)
+			if !ok {
+				t.Fatalf("%s: no amplitude %s", c.file, a)
+			}
+			ins = append(ins, amp.Body)
+		}
+		g, err := match.AnomalousDimension(p, ins, c.ops)
+		if err != nil {
+			t.Fatal(err)
+		}
+		tb, err := running.LookupTable(c.table)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i := range g {
+			for j := range g[i] {
+				want := tb.Block.Gamma[0][c.at[0]+i][c.at[1]+j]
+				got, ok := g[i][j].AsRatFunc()
+				if _, fixed := tb.Block.Fixed["Nc"]; fixed && ok { // a table at Nc = 3: compare there
+					got, _ = got.Subst("Nc", expr.RFInt(3))
+				}
+				if !ok || !got.Equal(want) {
+					t.Errorf("%s: γ^(0)(%s, %s) from the poles %s, table %s %s", c.file, c.ops[i], c.ops[j], g[i][j], c.table, want)
+				}
+			}
 		}
 	}
 }
