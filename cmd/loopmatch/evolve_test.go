@@ -252,6 +252,8 @@ func TestEvolveExitCodes(t *testing.T) {
 	none := write("none.lm", "symbols x\n")
 	bad := write("bad.lm", "anomalous g onto A:\n  row 0 A 1\n")
 	tree := "../../testdata/tree_scalar.lm"
+	withValues := write("values.lm", "symbols c0 c1\nvalues c0 = 1/2\nanomalous g onto A:\n  initial A = 2*c0\n  row 0 A: 4\n")
+	noValue := write("novalue.lm", "symbols c0 c1\nanomalous g onto A:\n  initial A = c1\n  row 0 A: 4\n")
 	cases := []struct {
 		args    []string
 		code    int
@@ -289,6 +291,8 @@ func TestEvolveExitCodes(t *testing.T) {
 		{[]string{"--table", "deltaf2", "--from", "80", "--to", "10", "--order", "nnlo"}, exitBadInput, "unknown format \"nnlo\""},
 		{[]string{"--table", "deltaf2", "--from", "80", "--to", "10", "--format", "latex"}, exitBadInput, "unknown format \"latex\""},
 		{[]string{tree, "--from", "80", "--to", "10"}, exitBadInput, "has no anomalous block"},
+		{[]string{withValues, "--from", "80", "--to", "10"}, exitOK, ""},
+		{[]string{noValue, "--from", "80", "--to", "10"}, exitBadInput, "novalue.lm:2:1: initial value of A: no value for the symbol c1"},
 	}
 	for _, c := range cases {
 		out, errOut, code := runCLI(append([]string{"evolve"}, c.args...)...)
@@ -298,6 +302,10 @@ func TestEvolveExitCodes(t *testing.T) {
 		if code == exitOK && out == "" {
 			t.Errorf("evolve %v: no output", c.args)
 		}
+	}
+	// The initial line is evaluated with the file's values: A = 2*c0 = 1.
+	if j := evolveJSON(t, withValues, "--from", "80", "--to", "10"); j.Coefficients[0].Initial != [2]float64{1, 0} {
+		t.Errorf("initial value from the file's values: %v", j.Coefficients[0].Initial)
 	}
 }
 
