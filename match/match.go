@@ -146,6 +146,9 @@ func Reduce(p *notation.Program, e expr.Expr, small passarino.Small, opt Options
 	if err != nil {
 		return expr.Series{}, nil, err
 	}
+	if e, err = resolveOnShell(p, e); err != nil {
+		return expr.Series{}, nil, err
+	}
 	red, info, err := passarino.Heavy(e, small)
 	if err != nil {
 		return expr.Series{}, nil, err

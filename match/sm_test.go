@@ -8,7 +8,9 @@ import (
 	"strings"
 	"testing"
 
+	"loopmatch/expr"
 	"loopmatch/expr/notation"
+	"loopmatch/loops/vacuum"
 	"loopmatch/passarino"
 )
 
@@ -162,5 +164,69 @@ func TestRhoOneLoop(t *testing.T) {
 	}
 	if got := s.Coef(0); !got.Equal(want) {
 		t.Errorf("Δρ = %s\nwant %s", got.Pretty(), want.Pretty())
+	}
+}
+
+// TestRhoTwoLoop computes the O(α_s) correction to Δρ from the t–b doublet (m_b = 0, top pole
+// mass) in testdata/sm/rho_twoloop.lm and compares with A. Djouadi, C. Verzegnassi, Phys. Lett.
+// B195 (1987) 265 and B.A. Kniehl, Nucl. Phys. B347 (1990) 86: Δρ = Δρ₁ [1 − (2/9)(π² + 3) α_s/π]
+// for N_c = 3, i.e. the g_s² coefficient is −Δρ₁ C_F (π² + 3)/(24π²) (the factor 2/9 = C_F/6 with
+// α_s/π = g_s²/(4π²)). The on-shell mass counterterm entering it is checked against the textbook
+// one-loop result δm = −(C_F m g_s²/16π²)(3/ε + 4 − 3 ln(m²/μ²)) (common practice, no source).
+func TestRhoTwoLoop(t *testing.T) {
+	if testing.Short() {
+		t.Skip("two-loop reduction (≈ 0.5 s)")
+	}
+	p, err := notation.ParseFile("../testdata/sm/rho_twoloop.lm")
+	if err != nil {
+		t.Fatal(err)
+	}
+	reduce := func(name string) expr.Series {
+		a, _ := p.Amplitude(name)
+		s, _, err := Reduce(p, a.Body, passarino.Small{}, Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !s.Coef(-1).IsZero() || !s.Coef(-2).IsZero() {
+			t.Errorf("%s: poles do not cancel: %v", name, s)
+		}
+		return s
+	}
+	parse := func(src string) expr.Expr {
+		e, err := p.ParseExpr(src)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return e
+	}
+	rho1 := reduce("drho1").Coef(0)
+	if want := parse("Nc*mt^2/(64*pi^2)"); !rho1.Equal(want) {
+		t.Errorf("Δρ₁ = %s, want %s", rho1.Pretty(), want.Pretty())
+	}
+	rho2 := reduce("drho2").Coef(0)
+	want := rho1.MustMul(parse("-(Nc^2 - 1)/(2*Nc)*(pi^2 + 3)/(24*pi^2)"))
+	if !rho2.Equal(want) {
+		t.Errorf("Δρ₂ = %s\nwant %s", rho2.Pretty(), want.Pretty())
+	}
+
+	a, _ := p.Amplitude("sigma_t")
+	dm, err := OnShellMass(p, a)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ser, err := vacuum.ExpandEps(dm, 1, p.Positive)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		order int
+		want  string
+	}{
+		{-1, "-3*(Nc^2 - 1)/(2*Nc)*mt/(16*pi^2)"},
+		{0, "-(Nc^2 - 1)/(2*Nc)*mt/(16*pi^2)*(4 - 3*log(mt^2/mu^2))"},
+	} {
+		if got, want := ser.Coef(c.order), parse(c.want); !got.Equal(want) {
+			t.Errorf("δm at eps^%d = %s, want %s", c.order, got.Pretty(), want.Pretty())
+		}
 	}
 }

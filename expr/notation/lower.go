@@ -854,6 +854,9 @@ func argName(a *Expr) (string, lexer.Position, bool) {
 	return ref.Name, ref.Pos, true
 }
 
+// OnShellFn is the function name of on-shell mass counterterms, onshell(A).
+const OnShellFn = "onshell"
+
 // integralArity gives the argument groups of the scalar-integral calls (invariants; masses).
 var integralArity = map[string][]int{
 	"A0": {1}, "B0": {1, 2}, "B0prime": {1, 2}, "C0": {3, 3}, "D0": {6, 4},
@@ -862,7 +865,7 @@ var integralArity = map[string][]int{
 var functionArity = map[string]int{
 	"gamma": 1, "slash": 1, "sigma": 2, "ubar": 1, "vbar": 1, "u": 1, "v": 1, "g": 2, "levi": 4,
 	"T": 1, "f": 3, "delta": 2, "log": 1, "Li2": 1, "Cl2": 1, "sqrt": 1, "conj": 1,
-	"tr": 1, "ctr": 1,
+	"tr": 1, "ctr": 1, "onshell": 1,
 }
 
 // operatorOnly are the functions that exist only in operator definitions.
@@ -972,6 +975,17 @@ func (l *lowerer) builtinCallErr(r *NameRef, name string, n int) (value, error) 
 		return l.conj(args[0])
 	case "tr", "ctr":
 		return l.trace(name, args[0])
+	case "onshell":
+		// onshell(A): the on-shell mass counterterm δm of the fermion whose self-energy sandwich
+		// ubar(…) (−iΣ) u(…) is the amplitude A; package match evaluates it.
+		n, pos, ok := argName(args[0])
+		if !ok {
+			return value{}, errorf(args[0].Pos, "onshell takes the name of an amplitude")
+		}
+		if d, ok := l.p.Decls[n]; !ok || d.Kind != KindAmplitude {
+			return value{}, errorf(pos, "onshell(%s): %s is not an amplitude defined before this point", n, n)
+		}
+		return scalar(expr.FromAtom(expr.NewFn(OnShellFn, 1, expr.Sym(n)), 1)), nil
 	case "gamma", "sigma", "g":
 		var idx []string
 		for _, a := range args {
