@@ -93,26 +93,55 @@ func squareFreeRec(p Poly) []FactorPow {
 // reports: "-(x^2 - 5*x - 2)/(24*(x - 1)^3)". It is not the canonical text (which the parser reads
 // back to the same value as well, but expanded).
 func (r RatFunc) Pretty() string {
+	neg, num, den := r.prettyParts()
+	sign := ""
+	if neg {
+		sign = "-"
+	}
+	return sign + quotientText(num, den)
+}
+
+// prettyParts gives the sign and the factored numerator and denominator texts of r.
+func (r RatFunc) prettyParts() (neg bool, num, den string) {
 	cn, fn := SquareFree(r.Num())
 	cd, fd := SquareFree(r.Den())
 	c := new(big.Rat).Quo(cn, cd)
-	sign := ""
-	if c.Sign() < 0 {
-		sign = "-"
+	if neg = c.Sign() < 0; neg {
 		c.Neg(c)
 	}
-	num := productText(c.Num(), fn)
-	den := productText(c.Denom(), fd)
+	return neg, productText(c.Num(), fn), productText(c.Denom(), fd)
+}
+
+// quotientText writes num/den with the parentheses each side needs ("x" when den is "1").
+func quotientText(num, den string) string {
 	if den == "1" {
-		return sign + num
+		return num
 	}
-	if strings.ContainsAny(num, "*+- ") && !(strings.HasPrefix(num, "(") && strings.Count(num, "(") == 1 && strings.HasSuffix(num, ")")) {
+	if strings.ContainsAny(topLevel(num), "+- ") {
 		num = "(" + num + ")"
 	}
-	if strings.ContainsAny(den, "*+- ^") {
+	if strings.ContainsAny(topLevel(den), "*/+- ") {
 		den = "(" + den + ")"
 	}
-	return sign + num + "/" + den
+	return num + "/" + den
+}
+
+// topLevel returns s without its parenthesised parts, so that the operators left are the ones
+// that bind last; a leading sign is kept out (it is not an operator between factors).
+func topLevel(s string) string {
+	var sb strings.Builder
+	depth := 0
+	for _, r := range s {
+		switch {
+		case r == '(':
+			depth++
+		case r == ')':
+			depth--
+		case depth == 0:
+			sb.WriteRune(r)
+		}
+	}
+	return sb.String()
 }
 
 func productText(k *big.Int, fs []FactorPow) string {
@@ -155,30 +184,31 @@ func (e Expr) Pretty() string {
 	return sb.String()
 }
 
+// prettyText writes the term as one fraction: the factored coefficient with the atoms of
+// positive power in the numerator and those of negative power in the denominator.
 func (t Term) prettyText() string {
-	var atoms []string
+	neg, num, den := t.Coef.prettyParts()
+	var up, down []string
 	for _, a := range t.Atoms {
 		if a.Pow > 0 {
-			atoms = append(atoms, atomText(a.A, a.Pow))
+			up = append(up, atomText(a.A, a.Pow))
 		} else {
-			atoms = append(atoms, "1/"+atomText(a.A, -a.Pow))
+			down = append(down, atomText(a.A, -a.Pow))
 		}
 	}
-	c := t.Coef.Pretty()
-	if len(atoms) == 0 {
-		return c
-	}
-	neg := strings.HasPrefix(c, "-")
-	if neg {
-		c = c[1:]
-	}
-	out := strings.Join(atoms, "*")
-	if c != "1" {
-		if strings.ContainsAny(c, "+ ") && !strings.HasPrefix(c, "(") {
+	join := func(c string, atoms []string) string {
+		if len(atoms) == 0 {
+			return c
+		}
+		if c == "1" {
+			return strings.Join(atoms, "*")
+		}
+		if strings.ContainsAny(topLevel(c), "+- ") {
 			c = "(" + c + ")"
 		}
-		out = c + "*" + out
+		return c + "*" + strings.Join(atoms, "*")
 	}
+	out := quotientText(join(num, up), join(den, down))
 	if neg {
 		out = "-" + out
 	}

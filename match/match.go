@@ -2,6 +2,7 @@ package match
 
 import (
 	"fmt"
+	"maps"
 	"slices"
 	"strings"
 
@@ -179,26 +180,55 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 	}
 	res := &Result{Block: mb, Kinematics: pl.Rules()}
 	res.Conventions = []string{
-		fmt.Sprintf("L_eff = N * sum_i C_i Q_i with N = %s; amplitudes are iM", mb.Norm),
+		fmt.Sprintf("L_eff = N * sum_i C_i Q_i with N = %s; amplitudes are iM", mb.Norm.Pretty()),
 		"metric (+,-,-,-), d = 4 - 2*eps, MS-bar: loop k {…} = mu^(2 eps) (e^gamma_E/(4 pi))^eps ∫ d^dk/(2 pi)^d",
 		"gamma5: NDR (anticommuting), chains in the projector basis",
-		fmt.Sprintf("heavy-mass route: Taylor expansion in %s to order %d; loops in the effective theory are scaleless", strings.Join(mb.Expand, ", "), mb.Order),
+	}
+	if len(mb.Expand) == 0 {
+		res.Conventions = append(res.Conventions, "heavy-mass route: nothing is expanded (vacuum amplitudes)")
+	} else {
+		res.Conventions = append(res.Conventions, fmt.Sprintf("heavy-mass route: Taylor expansion in %s to order %d; loops in the effective theory are scaleless", strings.Join(mb.Expand, ", "), mb.Order))
 	}
 	if mb.ScaleSet {
 		res.Conventions = append(res.Conventions, fmt.Sprintf("scale: mu = %s", mb.Scale))
 	}
-	// Full-theory amplitude.
+	// Full-theory amplitude, reduced loop order by loop order: the L-loop part carries μ^{2Lε},
+	// which the scale check needs.
 	full := expr.Zero()
 	for _, n := range mb.Amps {
 		a, _ := p.Amplitude(n)
 		full = full.Add(a.Body)
 	}
-	ser, notes, err := Reduce(p, full, small, opt)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %v", mb.Pos, err)
+	parts := byLoopOrder(p, full)
+	var ser expr.Series
+	var notes []string
+	serL := make(map[int]expr.Series)
+	maxL := 0
+	for _, L := range slices.Sorted(maps.Keys(parts)) {
+		s, n, err := Reduce(p, parts[L], small, opt)
+		if err != nil {
+			return nil, fmt.Errorf("%s: %v", mb.Pos, err)
+		}
+		if len(serL) == 0 {
+			ser = s
+		} else {
+			ser = ser.Add(s)
+		}
+		serL[L], maxL = s, L
+		for _, x := range n {
+			if !slices.Contains(notes, x) {
+				notes = append(notes, x)
+			}
+		}
 	}
-	if !ser.Coef(-2).IsZero() {
+	if maxL > 2 {
+		return nil, fmt.Errorf("%s: the amplitudes reach %d loops; matching goes up to two loops", mb.Pos, maxL)
+	}
+	if maxL < 2 && !ser.Coef(-2).IsZero() {
 		return nil, fmt.Errorf("%s: the amplitude has a 1/eps^2 pole (%s); one-loop matching expects at most 1/eps", mb.Pos, ser.Coef(-2))
+	}
+	if maxL == 2 {
+		res.Conventions = append(res.Conventions, "two loops: the loop measure carries mu^(2 eps) per loop; counterterms are the ones written in the file")
 	}
 	finite0, pole := ser.Coef(0), ser.Coef(-1) // finite0 keeps the symbolic μ
 	finite := finite0
@@ -233,8 +263,71 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 			return nil, err
 		}
 	}
-	// Checks. UV poles: large-momentum expansion of the loop terms plus the poles of the tree-level
-	// (counterterm) terms.
+	// Checks of the poles.
+	var irC []expr.Expr // nil when the poles are not spanned by the basis
+	if maxL < 2 {
+		if irC, err = oneLoopPoles(p, pl, res, full, pole, small, basis); err != nil {
+			return nil, err
+		}
+	} else {
+		irC = twoLoopPoles(pl, res, ser, basis)
+	}
+	// Scale dependence: ∂C/∂ln μ = Σ_L 2L × (1/ε residue of the L-loop part), since that part
+	// carries μ^{2Lε} (at one loop: twice the residue of the loop poles).
+	loopPole := expr.Zero()
+	for L, s := range serL {
+		loopPole = loopPole.Add(s.Coef(-1).Scale(expr.RFInt(int64(2 * L))))
+	}
+	if loopPole, err = pl.Apply(loopPole); err != nil {
+		return nil, err
+	}
+	predicted, perr := Project(loopPole, basis)
+	for i, c := range cs {
+		coef := Coefficient{Operator: mb.Ops[i], Value: c, InRatios: c}
+		for _, r := range mb.Ratios {
+			if coef.InRatios, err = applyRatio(coef.InRatios, r); err != nil {
+				return nil, err
+			}
+		}
+		if irC != nil {
+			coef.Pole = irC[i]
+		}
+		res.Coeffs = append(res.Coeffs, coef)
+		ch := Check{Name: fmt.Sprintf("scale dependence of C_%s follows from the poles (RGE)", mb.Ops[i])}
+		if mb.ScaleSet {
+			ch.Detail = "the scale is set to " + mb.Scale.String() + "; the check uses the symbolic mu before that"
+		}
+		got, err := logMuCoefficient(cs0[i])
+		switch {
+		case err != nil:
+			ch.Detail = err.Error()
+		case perr != nil:
+			ch.Detail = "poles not spanned by the basis: " + perr.Error()
+		default:
+			want := predicted[i]
+			ch.Passed = got.Sub(want).IsZero()
+			ch.Detail = fmt.Sprintf("dC/dln(mu) = %s; predicted by the poles: %s", got, want)
+		}
+		res.Checks = append(res.Checks, ch)
+	}
+	for _, op := range mb.ExpectOrder {
+		i := slices.Index(mb.Ops, op)
+		diff := cs[i].Sub(mb.Expect[op])
+		res.Expectations = append(res.Expectations, Check{
+			Name:   "C_" + op + " equals the expected " + mb.Expect[op].String(),
+			Passed: diff.IsZero(),
+			Detail: describe("difference", diff),
+		})
+	}
+	res.Notes = append(notes, pl.Notes...)
+	return res, nil
+}
+
+// oneLoopPoles checks that the ultraviolet poles of the full amplitude (large-momentum expansion
+// of the loop terms) are cancelled by the counterterms written as tree terms, and projects the
+// remaining infrared poles onto the basis; it appends both checks to res and returns the
+// projections (nil when the basis does not span them).
+func oneLoopPoles(p *notation.Program, pl *Canon, res *Result, full, pole expr.Expr, small passarino.Small, basis []expr.Expr) ([]expr.Expr, error) {
 	uv, err := passarino.UVPole(full, massSymbols(p), small.OnShell)
 	if err != nil {
 		return nil, err
@@ -265,64 +358,86 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 		Passed: uvTotal.IsZero(),
 		Detail: describe("remaining UV pole coefficient of 1/eps", uvTotal),
 	})
-	ir := pole.Sub(uvTotal)
-	irC, irErr := Project(ir, basis)
+	irC, irErr := Project(pole.Sub(uvTotal), basis)
 	irCheck := Check{Name: "infrared poles of the full theory are EFT counterterms in the declared basis", Passed: irErr == nil}
 	switch {
 	case irErr != nil:
 		irCheck.Detail = irErr.Error()
-	case ir.IsZero():
+	case pole.Sub(uvTotal).IsZero():
 		irCheck.Detail = "no infrared poles (no EFT counterterm at this order)"
 	default:
 		var parts []string
 		for i, c := range irC {
-			parts = append(parts, fmt.Sprintf("dC_%s = %s", mb.Ops[i], c))
+			parts = append(parts, fmt.Sprintf("dC_%s = %s", res.Block.Ops[i], c))
 		}
 		irCheck.Detail = "EFT counterterms (coefficients of 1/eps): " + strings.Join(parts, "; ")
 	}
 	res.Checks = append(res.Checks, irCheck)
-	// Scale dependence: ∂C/∂ln μ must equal twice the residue of the loop poles.
-	loopPole := pole.Sub(ctPole)
-	predicted, perr := Project(loopPole, basis)
-	for i, c := range cs {
-		coef := Coefficient{Operator: mb.Ops[i], Value: c, InRatios: c}
-		for _, r := range mb.Ratios {
-			if coef.InRatios, err = applyRatio(coef.InRatios, r); err != nil {
-				return nil, err
+	if irErr != nil {
+		return nil, nil
+	}
+	return irC, nil
+}
+
+// twoLoopPoles checks the poles of a two-loop amplitude whose counterterms are written in the
+// file: what remains of 1/ε² and 1/ε must be EFT counterterms in the declared basis. The split of
+// the poles into ultraviolet and infrared ones is not made at two loops. It returns the
+// projection of the 1/ε poles (nil when the basis does not span them).
+func twoLoopPoles(pl *Canon, res *Result, ser expr.Series, basis []expr.Expr) []expr.Expr {
+	var c1 []expr.Expr
+	ops := res.Block.Ops
+	for _, k := range []int{-2, -1} {
+		pole, err := pl.Apply(ser.Coef(k))
+		if err == nil {
+			var cs []expr.Expr
+			if cs, err = Project(pole, basis); err == nil && k == -1 {
+				c1 = cs
+			}
+			ch := Check{Name: fmt.Sprintf("1/eps^%d poles after the counterterms of the file are EFT counterterms in the declared basis (two loops: no UV/IR split)", -k), Passed: err == nil}
+			switch {
+			case err != nil:
+				ch.Detail = err.Error()
+			case pole.IsZero():
+				ch.Detail = "the poles cancel"
+			default:
+				var parts []string
+				for i, c := range cs {
+					parts = append(parts, fmt.Sprintf("dC_%s = %s", ops[i], c))
+				}
+				ch.Detail = fmt.Sprintf("EFT counterterms (coefficients of 1/eps^%d): %s", -k, strings.Join(parts, "; "))
+			}
+			res.Checks = append(res.Checks, ch)
+		} else {
+			res.Checks = append(res.Checks, Check{Name: fmt.Sprintf("1/eps^%d poles in canonical form", -k), Detail: err.Error()})
+		}
+	}
+	return c1
+}
+
+// byLoopOrder splits e by loop order: the loop momenta of a term plus those of the self-energies
+// inside its on-shell counterterms onshell(A).
+func byLoopOrder(p *notation.Program, e expr.Expr) map[int]expr.Expr {
+	out := make(map[int]expr.Expr)
+	for _, t := range e.Terms() {
+		L := len(t.Loops)
+		for _, ap := range t.Atoms {
+			if f, ok := ap.A.(expr.Fn); ok && f.Name == notation.OnShellFn {
+				if a, ok := p.Amplitude(f.Args[0].String()); ok {
+					L += ap.Pow * maxLoops(a.Body)
+				}
 			}
 		}
-		if irErr == nil {
-			coef.Pole = irC[i]
-		}
-		res.Coeffs = append(res.Coeffs, coef)
-		ch := Check{Name: fmt.Sprintf("scale dependence of C_%s follows from the poles (RGE)", mb.Ops[i])}
-		if mb.ScaleSet {
-			ch.Detail = "the scale is set to " + mb.Scale.String() + "; the check uses the symbolic mu before that"
-		}
-		got, err := logMuCoefficient(cs0[i])
-		switch {
-		case err != nil:
-			ch.Detail = err.Error()
-		case perr != nil:
-			ch.Detail = "poles not spanned by the basis: " + perr.Error()
-		default:
-			want := predicted[i].Scale(expr.RFInt(2))
-			ch.Passed = got.Sub(want).IsZero()
-			ch.Detail = fmt.Sprintf("dC/dln(mu) = %s; predicted by the poles: %s", got, want)
-		}
-		res.Checks = append(res.Checks, ch)
+		out[L] = out[L].Add(expr.FromTerm(t))
 	}
-	for _, op := range mb.ExpectOrder {
-		i := slices.Index(mb.Ops, op)
-		diff := cs[i].Sub(mb.Expect[op])
-		res.Expectations = append(res.Expectations, Check{
-			Name:   "C_" + op + " equals the expected " + mb.Expect[op].String(),
-			Passed: diff.IsZero(),
-			Detail: describe("difference", diff),
-		})
+	return out
+}
+
+func maxLoops(e expr.Expr) int {
+	n := 0
+	for _, t := range e.Terms() {
+		n = max(n, len(t.Loops))
 	}
-	res.Notes = append(notes, pl.Notes...)
-	return res, nil
+	return n
 }
 
 // logMuCoefficient returns ∂e/∂ln μ, which must be free of μ at one loop.

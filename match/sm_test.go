@@ -199,14 +199,25 @@ func TestRhoTwoLoop(t *testing.T) {
 		}
 		return e
 	}
-	rho1 := reduce("drho1").Coef(0)
+	// i Δρ₁ and i g_s² Δρ₂ separately, then the whole match through Run (two-loop checks).
+	rho1 := reduce("drho1").Coef(0).MustMul(parse("-I"))
 	if want := parse("Nc*mt^2/(64*pi^2)"); !rho1.Equal(want) {
 		t.Errorf("Δρ₁ = %s, want %s", rho1.Pretty(), want.Pretty())
 	}
-	rho2 := reduce("drho2").Coef(0)
-	want := rho1.MustMul(parse("-(Nc^2 - 1)/(2*Nc)*(pi^2 + 3)/(24*pi^2)"))
+	rho2 := reduce("drho2").Coef(0).MustMul(parse("-I"))
+	want := rho1.MustMul(parse("-gs2*(Nc^2 - 1)/(2*Nc)*(pi^2 + 3)/(24*pi^2)"))
 	if !rho2.Equal(want) {
 		t.Errorf("Δρ₂ = %s\nwant %s", rho2.Pretty(), want.Pretty())
+	}
+	r, err := Run(p, p.Matches[0], Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Failed() || len(r.Expectations) != 1 {
+		t.Errorf("checks or the expect line failed: %+v %+v", r.Checks, r.Expectations)
+	}
+	if got := r.Coeffs[0].Value; !got.Equal(rho1.Add(rho2)) {
+		t.Errorf("C_RHO = %s, want Δρ₁ + Δρ₂", got.Pretty())
 	}
 
 	a, _ := p.Amplitude("sigma_t")

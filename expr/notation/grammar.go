@@ -174,10 +174,11 @@ type MatchLine struct {
 	Ratio  *Assign     `parser:"| \"ratio\" @@"`
 }
 
-// ExpandLine is "expand p, q, m1 to order 2".
+// ExpandLine is "expand p, q, m1 to order 2", or "expand to order 0" when nothing is small
+// (vacuum amplitudes).
 type ExpandLine struct {
 	Pos   lexer.Position
-	Names []*Name `parser:"\"expand\" @@ ( \",\" @@ )*"`
+	Names []*Name `parser:"\"expand\" ( (?! \"to\" \"order\") @@ ( \",\" @@ )* )?"`
 	Order string  `parser:"\"to\" \"order\" @Number"`
 }
 

@@ -42,6 +42,9 @@ func TestErrors(t *testing.T) {
 		{"free index mismatch", header + "amplitude X = ubar(b) (gamma(al) + M) u(a)\n", "different free indices"},
 		{"match unknown", header + "operator Q = bar(b) a\nmatch Y onto Q:\n", "t.lm:10:7: match: Y is not an amplitude of this file"},
 		{"expand order", header + "amplitude X = g\noperator Q = bar(b) a\nmatch X onto Q:\n expand p to order x\n", "expected a number"},
+		{"empty values", header + "values\n", "t.lm:10:1: expected NAME = value, found the end of the file"},
+		{"onshell of a non-amplitude", header + "define dm = onshell(g)\namplitude X = dm\n", "onshell(g): g is not an amplitude defined before this point"},
+		{"expand nothing wrong order", header + "amplitude X = g\noperator Q = bar(b) a\nmatch X onto Q:\n expand to order p\n", "expected a number"},
 		{"recursive define", header + "define V = V\namplitude X = V\n", "nest more than 50 levels"},
 		{"big exponent", header + "amplitude X = g^100\n", "exponent 100 is larger than the limit 64"},
 		{"vector power", header + "amplitude X = p^3\n", "a vector can only be squared"},
@@ -255,6 +258,29 @@ func TestTraces(t *testing.T) {
 	for _, src := range []string{"amplitude X = tr(ubar(b) u(a))\n", "adjoint c1\namplitude X = tr(T(c1))\n", "amplitude X = ctr(gamma(al) gamma(al))\n"} {
 		if _, err := Parse("t.lm", []byte(header+src)); err == nil {
 			t.Errorf("%q accepted", src)
+		}
+	}
+}
+
+// TestExpandNothing checks that "expand to order 0" names no small quantity while the lists of
+// names keep working.
+func TestExpandNothing(t *testing.T) {
+	for _, c := range []struct {
+		line  string
+		names []string
+		order int
+	}{
+		{"expand to order 0", nil, 0},
+		{"expand p, q to order 2", []string{"p", "q"}, 2},
+		{"expand ml to order 1", []string{"ml"}, 1},
+	} {
+		p, err := Parse("t.lm", []byte(header+"amplitude X = g\noperator Q = bar(b) a\nmatch X onto Q:\n "+c.line+"\n"))
+		if err != nil {
+			t.Fatalf("%s: %v", c.line, err)
+		}
+		mb := p.Matches[0]
+		if !mb.HasExpand || mb.Order != c.order || strings.Join(mb.Expand, ",") != strings.Join(c.names, ",") {
+			t.Errorf("%s: expand %v to order %d (set %v)", c.line, mb.Expand, mb.Order, mb.HasExpand)
 		}
 	}
 }

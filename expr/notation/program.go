@@ -307,11 +307,13 @@ func expectedWords(exp string) string {
 	case "MomExpr", "MomAtom":
 		return "a momentum"
 	case "Stmt":
-		return "a statement (a declaration, external, define, amplitude, counterterm, operator or match)"
+		return "a statement (a declaration, values, external, define, amplitude, counterterm, operator, match or anomalous)"
 	case "LegAttr":
 		return "a leg attribute (momentum, mass, polarization, colour)"
 	case "MatchLine":
-		return "a match line (normalization, expand, scheme, scale, expect, route)"
+		return "a match line (normalization, expand, scheme, scale, expect, ratio, route)"
+	case "Assign":
+		return "NAME = value"
 	case "CallArgs", "ArgGroup":
 		return "function arguments"
 	}
