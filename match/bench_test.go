@@ -19,7 +19,8 @@ func benchMatch(b *testing.B, path string) {
 	}
 }
 
-func BenchmarkMatchDemoDipole(b *testing.B) { benchMatch(b, "../testdata/dipole_vlf.lm") }
-func BenchmarkMatchDemoBox(b *testing.B)    { benchMatch(b, "../testdata/box_vlf.lm") }
-func BenchmarkMatchSMDeltaF2(b *testing.B)  { benchMatch(b, "../testdata/sm/deltaf2_box.lm") }
-func BenchmarkMatchSMBsGamma(b *testing.B)  { benchMatch(b, "../testdata/sm/bsgamma.lm") }
+func BenchmarkMatchDemoDipole(b *testing.B)   { benchMatch(b, "../testdata/dipole_vlf.lm") }
+func BenchmarkMatchDemoBox(b *testing.B)      { benchMatch(b, "../testdata/box_vlf.lm") }
+func BenchmarkMatchSMDeltaF2(b *testing.B)    { benchMatch(b, "../testdata/sm/deltaf2_box.lm") }
+func BenchmarkMatchSMBsGamma(b *testing.B)    { benchMatch(b, "../testdata/sm/bsgamma.lm") }
+func BenchmarkMatchSMRhoTwoLoop(b *testing.B) { benchMatch(b, "../testdata/sm/rho_twoloop.lm") }
