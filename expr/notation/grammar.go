@@ -15,7 +15,7 @@ var keywords = []string{
 	"couplings", "complex", "masses", "light", "index", "momenta", "symbols", "gauge", "colour",
 	"adjoint", "external", "amplitude", "define", "counterterm", "operator", "match", "loop",
 	"normalization", "expand", "scheme", "scale", "expect", "route", "ratio", "anomalous", "row", "values",
-	"for", "initial",
+	"for", "initial", "eft", "kinematics", "offshell", "regulator", "invariant", "eom",
 }
 
 func keywordPattern() string {
@@ -172,6 +172,15 @@ type MatchLine struct {
 	Expect *Assign     `parser:"| \"expect\" @@"`
 	Route  *Name       `parser:"| \"route\" @@"`
 	Ratio  *Assign     `parser:"| \"ratio\" @@"`
+	// Lines of the general route and of the checks (docs/GENERAL.md).
+	EFT       []*Name `parser:"| \"eft\" @@ ( \",\" @@ )*"`
+	KinLeft   *Expr   `parser:"| \"kinematics\" @@"`
+	KinRight  *Expr   `parser:"  \"=\" @@"`
+	OffShell  bool    `parser:"| @\"offshell\""`
+	Report    bool    `parser:"  @\"report\"?"`
+	Regulator []*Name `parser:"| \"regulator\" @@ ( \",\" @@ )*"`
+	Invariant *Expr   `parser:"| \"invariant\" @@"`
+	EOM       []*Name `parser:"| \"eom\" @@ ( \",\" @@ )*"`
 }
 
 // ExpandLine is "expand p, q, m1 to order 2", or "expand to order 0" when nothing is small

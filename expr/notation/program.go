@@ -137,6 +137,32 @@ type MatchBlock struct {
 	Route       string
 	Ratios      []Ratio
 	Pos         Pos
+
+	// The general route and the checks (docs/GENERAL.md).
+	EFT            []string    // amplitudes of the effective theory, subtracted on the general route
+	Kinematics     []KinRule   // values of scalar products of external momenta
+	OffShell       bool        // the legs are off shell: no mass-shell conditions, no Dirac equation
+	ReportOffShell bool        // also report the coefficients in the off-shell basis
+	Regulators     []string    // infrared regulators: light masses or symbols of mass dimension 1
+	Invariants     []Invariant // combinations of coefficients declared independent of the gauge parameters
+	EOM            []string    // operators of the basis that vanish or reduce by the equations of motion
+}
+
+// KinRule is a line "kinematics p.q = value": a scalar product of external momenta and its
+// value, a parameter expression.
+type KinRule struct {
+	Dot   expr.Dot
+	Value expr.RatFunc
+	Pos   Pos
+}
+
+// Invariant is a line "invariant C_Q1 - 4*C_Q2": a combination of the block's coefficients
+// (each C_NAME stands for the coefficient of operator NAME) that must not depend on the gauge
+// parameters.
+type Invariant struct {
+	Combination expr.Expr // linear in the symbols C_NAME
+	Text        string
+	Pos         Pos
 }
 
 // Ratio is "ratio x = M1^2/M2^2": results are also written with M1² = x·M2².
@@ -736,6 +762,80 @@ func (p *Program) checkConservation() error {
 }
 
 func (p *Program) match(m *MatchStmt) error {
+	// kinRule validates "kinematics p.q = value" (also p^2 = value).
+	kinRule := func(left, right *Expr) (KinRule, error) {
+		l, err := p.lowerScalar(left, false)
+		if err != nil {
+			return KinRule{}, err
+		}
+		bad := errorf(left.Pos, "kinematics: expected a scalar product of two external momenta (p.q or p^2), found %s", l)
+		if l.Len() != 1 {
+			return KinRule{}, bad
+		}
+		t := l.Terms()[0]
+		if len(t.Atoms) != 1 || t.Atoms[0].Pow != 1 || !t.Coef.IsOne() || len(t.NC) > 0 {
+			return KinRule{}, bad
+		}
+		d, ok := t.Atoms[0].A.(expr.Dot)
+		if !ok {
+			return KinRule{}, bad
+		}
+		for _, n := range []string{d.A, d.B} {
+			if decl, ok := p.Decls[n]; !ok || decl.Kind != KindMomentum {
+				return KinRule{}, bad
+			}
+		}
+		v, err := p.lowerScalar(right, false)
+		if err != nil {
+			return KinRule{}, err
+		}
+		r, ok := v.AsRatFunc()
+		if !ok {
+			return KinRule{}, errorf(right.Pos, "kinematics: the value of %s must be a parameter expression, found %s", d.Key(), v)
+		}
+		return KinRule{Dot: d, Value: r, Pos: posOf(left.Pos)}, nil
+	}
+	// invariant validates "invariant C_Q1 - 4*C_Q2": a combination, linear in the
+	// coefficients of the block's operators, with parameter-dependent weights.
+	invariant := func(e *Expr, ops []string) (Invariant, error) {
+		var added []string
+		for _, o := range ops {
+			n := "C_" + o
+			if d, ok := p.Decls[n]; ok {
+				return Invariant{}, errorf(e.Pos, "invariant: %s names the coefficient of %s here, but it is also declared as a %s at %s", n, o, d.Kind, d.Pos)
+			}
+			p.Decls[n] = &Decl{Name: n, Kind: KindSymbol, Pos: posOf(e.Pos)}
+			added = append(added, n)
+		}
+		v, err := p.lowerScalar(e, false)
+		for _, n := range added {
+			delete(p.Decls, n)
+		}
+		if err != nil {
+			return Invariant{}, err
+		}
+		r, ok := v.AsRatFunc()
+		if !ok || v.IsZero() {
+			return Invariant{}, errorf(e.Pos, "invariant: expected a combination of coefficients C_NAME (NAME one of %s), found %s", strings.Join(ops, ", "), v)
+		}
+		for _, pt := range r.Num().Terms() {
+			k := 0
+			for _, vp := range pt.Mono {
+				if slices.Contains(added, vp.Var) {
+					k += vp.Exp
+				}
+			}
+			if k != 1 {
+				return Invariant{}, errorf(e.Pos, "invariant: the combination must be linear in the coefficients C_NAME, found %s", v)
+			}
+		}
+		for _, n := range added {
+			if r.Den().Has(n) {
+				return Invariant{}, errorf(e.Pos, "invariant: the combination must be linear in the coefficients C_NAME, found %s", v)
+			}
+		}
+		return Invariant{Combination: v, Text: p.sourceText(e), Pos: posOf(e.Pos)}, nil
+	}
 	mb := &MatchBlock{Pos: posOf(m.Pos), Expect: map[string]expr.Expr{}, Route: "heavy", Norm: expr.Int(1)}
 	for _, a := range m.Amps {
 		d, ok := p.Decls[a.Value]
@@ -831,11 +931,65 @@ func (p *Program) match(m *MatchStmt) error {
 				return errorf(l.Route.Pos, "route: expected heavy or general, found %s", l.Route.Value)
 			}
 			mb.Route = l.Route.Value
+		case l.EFT != nil:
+			what = "eft"
+			for _, a := range l.EFT {
+				d, ok := p.Decls[a.Value]
+				if !ok || d.Kind != KindAmplitude {
+					return errorf(a.Pos, "eft: %s is not an amplitude of this file", a.Value)
+				}
+				if slices.Contains(mb.Amps, a.Value) || slices.Contains(mb.EFT, a.Value) {
+					return errorf(a.Pos, "eft: %s is listed twice (full-theory amplitudes after match, effective-theory ones here)", a.Value)
+				}
+				mb.EFT = append(mb.EFT, a.Value)
+			}
+		case l.KinLeft != nil:
+			r, err := kinRule(l.KinLeft, l.KinRight)
+			if err != nil {
+				return err
+			}
+			what = "kinematics " + r.Dot.Key()
+			mb.Kinematics = append(mb.Kinematics, r)
+		case l.OffShell:
+			what = "offshell"
+			mb.OffShell, mb.ReportOffShell = true, l.Report
+		case l.Regulator != nil:
+			what = "regulator"
+			for _, n := range l.Regulator {
+				d, ok := p.Decls[n.Value]
+				if !ok || (d.Kind != KindLight && d.Kind != KindSymbol) {
+					return errorf(n.Pos, "regulator: %s must be a declared light mass or symbol (a quantity of mass dimension 1 that goes to zero)", n.Value)
+				}
+				mb.Regulators = append(mb.Regulators, n.Value)
+			}
+		case l.Invariant != nil:
+			inv, err := invariant(l.Invariant, mb.Ops)
+			if err != nil {
+				return err
+			}
+			what = "invariant " + inv.Text
+			mb.Invariants = append(mb.Invariants, inv)
+		case l.EOM != nil:
+			what = "eom"
+			for _, n := range l.EOM {
+				if !slices.Contains(mb.Ops, n.Value) {
+					return errorf(n.Pos, "eom: %s is not an operator of this match (one of %s)", n.Value, strings.Join(mb.Ops, ", "))
+				}
+				mb.EOM = append(mb.EOM, n.Value)
+			}
 		}
 		if prev, dup := seen[what]; dup {
 			return errorf(l.Pos, "match: a second %s line (the first is at %d:%d)", what, prev.Line, prev.Column)
 		}
 		seen[what] = l.Pos
+	}
+	switch {
+	case len(mb.EFT) > 0 && mb.Route != "general":
+		return errorf(m.Pos, "match: eft amplitudes are subtracted on the general route only (add: route general)")
+	case len(mb.EOM) > 0 && !mb.OffShell:
+		return errorf(m.Pos, "match: eom operators need an off-shell match (add: offshell)")
+	case len(mb.EOM) == len(mb.Ops) && len(mb.EOM) > 0:
+		return errorf(m.Pos, "match: every operator is marked eom; at least one must remain on shell")
 	}
 	p.Matches = append(p.Matches, mb)
 	return nil
