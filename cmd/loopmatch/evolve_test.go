@@ -380,8 +380,8 @@ func TestMatchEvolveToErrors(t *testing.T) {
 	}
 }
 
-// TestTablesAgainstPoles: the shipped γ^(0) of the current-current pair (exact in Nc) and γ77
-// agree with what match derives from the UV poles of the one-loop matrix elements of the
+// TestTablesAgainstPoles: the shipped γ^(0) of the current-current pair (exact in Nc), γ77 and
+// γ88 agree with what match derives from the UV poles of the one-loop matrix elements of the
 // project's own files (testdata/sm), a derivation that shares nothing with the tables.
 func TestTablesAgainstPoles(t *testing.T) {
 	cases := []struct {
@@ -391,6 +391,7 @@ func TestTablesAgainstPoles(t *testing.T) {
 	}{
 		{"../../testdata/sm/current_current.lm", "current_current", []string{"Q1_loop", "Q2_loop"}, []string{"Q1", "Q2"}, [2]int{0, 0}},
 		{"../../testdata/sm/dipole77.lm", "deltaf1_dipole_lo", []string{"Q7_loop"}, []string{"Q7"}, [2]int{6, 6}},
+		{"../../testdata/sm/dipole88.lm", "deltaf1_dipole_lo", []string{"Q8_loop"}, []string{"Q8"}, [2]int{7, 7}},
 	}
 	for _, c := range cases {
 		p, err := notation.ParseFile(c.file)

@@ -713,14 +713,22 @@ func (l *lowerer) ref(r *NameRef) (value, error) {
 	if b, ok := l.lookup(r.Name); ok && r.Call == nil {
 		if b.val != nil {
 			if r.Index != nil {
-				return value{}, errorf(r.Pos, "%s stands for an expression and cannot take an index", r.Name)
+				if b.val.kind != vVector {
+					return value{}, errorf(r.Pos, "%s stands for a scalar expression and cannot take an index", r.Name)
+				}
+				return l.momComponent(b.val.mom, r)
 			}
 			return *b.val, nil
 		}
-		// Aliases are resolved to names of the file's scope when bound.
+		// Aliases are resolved to names of the file's scope when bound; so is the index of K[mu]
+		// (itself possibly a parameter) before the define's scope is left.
+		idx := r.Index
+		if idx != nil {
+			idx = &Name{Pos: idx.Pos, Value: l.resolveName(idx.Value)}
+		}
 		saved := l.env
 		l.env = nil
-		v, err := l.ref(&NameRef{Pos: r.Pos, Name: b.alias, Index: r.Index})
+		v, err := l.ref(&NameRef{Pos: r.Pos, Name: b.alias, Index: idx})
 		l.env = saved
 		return v, err
 	}
@@ -806,6 +814,23 @@ func (l *lowerer) component(r *NameRef) (value, error) {
 		return value{}, errorf(r.Pos, "%s[%s]: %s is not a momentum or polarization vector", r.Name, mu, r.Name)
 	}
 	return value{kind: vScalar, e: expr.FromAtom(expr.Vec{P: name, Mu: mu}, 1), idx: map[string]int{mu: 1}}, nil
+}
+
+// momComponent lowers K[mu] for a define parameter K bound to a combination of momenta:
+// (q − k)[mu] = q[mu] − k[mu].
+func (l *lowerer) momComponent(m expr.Mom, r *NameRef) (value, error) {
+	mu, err := l.indexName(r.Index.Value, r.Index.Pos, KindIndex)
+	if err != nil {
+		return value{}, err
+	}
+	e := expr.Zero()
+	for _, t := range m {
+		e = e.Add(expr.FromAtom(expr.Vec{P: t.Name, Mu: mu}, 1).Scale(expr.RFRat(t.Coef)))
+	}
+	if e.IsZero() {
+		return scalar(e), nil
+	}
+	return value{kind: vScalar, e: e, idx: map[string]int{mu: 1}}, nil
 }
 
 func (l *lowerer) isVectorName(name string) bool {

@@ -284,3 +284,32 @@ func TestExpandNothing(t *testing.T) {
 		}
 	}
 }
+
+// TestParameterComponents checks K[mu] inside a define whose parameters K and mu stand for a
+// combination of momenta and an index: (p − 2q)[al] = p[al] − 2 q[al], and a bare momentum
+// argument with an index parameter.
+func TestParameterComponents(t *testing.T) {
+	p, err := Parse("t.lm", []byte(header+`
+define V(K, m) = K[m]
+amplitude X1 = ubar(b) gamma(al) u(a) * V(p - 2*q, al)
+amplitude X2 = ubar(b) gamma(al) u(a) * V(q, al)
+amplitude X3 = V(p - q, al) * V(p + q, al)
+`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := map[string]string{
+		"X1": "(ubar(b) slash(p) u(a)) - 2*(ubar(b) slash(q) u(a))",
+		"X2": "(ubar(b) slash(q) u(a))",
+		"X3": "p.p - q.q",
+	}
+	for n, w := range want {
+		x, _ := p.Amplitude(n)
+		if got := x.Body.String(); got != w {
+			t.Errorf("%s = %s, want %s", n, got, w)
+		}
+	}
+	if _, err := Parse("t.lm", []byte(header+"define V(K, m) = K[m]\namplitude X = V(2*g, al)\n")); err == nil || !strings.Contains(err.Error(), "scalar expression and cannot take an index") {
+		t.Errorf("index on a scalar parameter: %v", err)
+	}
+}
