@@ -167,6 +167,10 @@ func Reduce(p *notation.Program, e expr.Expr, small passarino.Small, opt Options
 
 // Run executes one match block of p (heavy-mass route).
 func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, error) {
+	// Issue 7 hook: the general route and off-shell matching run in match/extended.go.
+	if extended(mb) {
+		return runExtended(p, mb, opt)
+	}
 	if mb.Route != "heavy" {
 		return nil, fmt.Errorf("%s: route %s is not available yet", mb.Pos, mb.Route)
 	}
@@ -255,7 +259,7 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 	}
 	cs, err := Project(finite, basis)
 	if err != nil {
-		return nil, err
+		return nil, withWard(p, mb, opt, err) // issue 7 hook: report a failed Ward identity with the projection error
 	}
 	cs0 := cs
 	if mb.ScaleSet {
@@ -319,6 +323,12 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 			Detail: describe("difference", diff),
 		})
 	}
+	// Issue 7 hook: Ward identity and gauge-parameter checks (match/ward.go, match/gauge.go).
+	extra, err := issue7Checks(p, mb, opt, res)
+	if err != nil {
+		return nil, err
+	}
+	res.Checks = append(res.Checks, extra...)
 	res.Notes = append(notes, pl.Notes...)
 	return res, nil
 }
