@@ -53,7 +53,7 @@ var goReserved = map[string]bool{
 	"defer": true, "else": true, "fallthrough": true, "for": true, "func": true, "go": true,
 	"goto": true, "if": true, "import": true, "interface": true, "map": true, "package": true,
 	"range": true, "return": true, "select": true, "struct": true, "switch": true, "type": true,
-	"var": true, "math": true, "cmplx": true, "h": true, "t": true, "real": true, "complex": true,
+	"var": true, "math": true, "cmplx": true, "real": true, "complex": true,
 	"imag": true, "len": true, "cap": true, "new": true, "make": true, "min": true, "max": true,
 	"true": true, "false": true, "nil": true, "iota": true, "float64": true, "complex128": true,
 }
@@ -246,6 +246,8 @@ func (bl *builder) atom(a expr.Atom) (*node, error) {
 	}
 	if vs := r.Vars(); len(vs) == 1 && r.Equal(expr.RFVar(vs[0])) {
 		base += vs[0]
+	} else {
+		base = base[:1]
 	}
 	return bl.localOf("a:"+a.Key(), base, func() (*node, error) {
 		n, d, err := bl.ratFunc(r)

@@ -27,14 +27,6 @@ func (p *Program) names() goNames {
 	for _, par := range p.Spec.Params {
 		n.params[par.Name] = goIdent(par.Name)
 	}
-	uses := map[*Part]int{}
-	for _, c := range p.Coeffs {
-		for _, t := range c.Terms {
-			if t.Part != nil {
-				uses[t.Part]++
-			}
-		}
-	}
 	for _, c := range p.Coeffs {
 		for _, t := range c.Terms {
 			if t.Part == nil {
@@ -43,7 +35,7 @@ func (p *Program) names() goNames {
 			if _, done := n.parts[t.Part]; done {
 				continue
 			}
-			if p.inline(c) && uses[t.Part] == 1 {
+			if t.Part.inline {
 				n.parts[t.Part] = ""
 				continue
 			}
@@ -51,22 +43,6 @@ func (p *Program) names() goNames {
 		}
 	}
 	return n
-}
-
-// inline reports whether a coefficient is a single auxiliary function of its own arguments.
-func (p *Program) inline(c *Coeff) bool {
-	if len(c.Terms) != 1 || c.Terms[0].Part == nil || !c.Common.Equal(expr.Int(1)) || !c.Terms[0].Factor.Equal(expr.Int(1)) {
-		return false
-	}
-	if len(c.Args) != len(c.Terms[0].Part.Vars) {
-		return false
-	}
-	for i, a := range c.Args {
-		if a.Name != c.Terms[0].Part.Vars[i] {
-			return false
-		}
-	}
-	return true
 }
 
 func lowerFirst(s string) string {
@@ -279,8 +255,8 @@ func (c *Coeff) resultType() string {
 }
 
 func (p *Program) scaleText() string {
-	if p.Spec.Scale != "" {
-		return "at the matching scale " + p.Spec.Scale
+	if !p.Spec.Scale.IsZero() {
+		return "at the matching scale mu = " + p.Spec.Scale.String()
 	}
 	return "at the renormalisation scale mu"
 }
@@ -292,10 +268,7 @@ func (p *Program) argSentence(args []Param) string {
 	}
 	var ds []string
 	for _, a := range args {
-		d := a.Doc
-		if d == "" {
-			d = a.Name
-		}
+		d := a.Doc()
 		switch a.Kind {
 		case Ratio, Mass, Scale:
 			d += " (positive)"
@@ -318,7 +291,7 @@ func (p *Program) argSentence(args []Param) string {
 func (p *Program) writeCoeff(w *bytes.Buffer, c *Coeff, n goNames) error {
 	lines := []string{fmt.Sprintf("%s returns the Wilson coefficient %s of the operator", c.Name, c.Label), "", "\t" + c.Operator, ""}
 	lines = append(lines, fmt.Sprintf("in the conventions of the package comment, %s.%s", p.scaleText(), p.argSentence(c.Args)), "")
-	inline := p.inline(c)
+	inline := len(c.Terms) == 1 && c.Terms[0].Part != nil && c.Terms[0].Part.inline
 	if inline {
 		lines = append(lines, "It is", "")
 		lines = append(lines, formulaBlock(c.Label, c.Expr)...)

@@ -392,6 +392,11 @@ func (n *node) goPrec(args []string, locals []local, fns funcNames) (string, int
 	case opDiv:
 		return sub(n.kids[0], precProd) + " / " + sub(n.kids[1], precUnit), precProd
 	case opNeg:
+		// −(a·b) and −(a/b) print as −a·b and −a/b: negation is exact, so (−a)·b is the same
+		// float64 value.
+		if k := n.kids[0]; k.op == opMul || k.op == opDiv {
+			return "-" + sub(k, precProd), precSum
+		}
 		return "-" + sub(n.kids[0], precUnit), precSum
 	case opLog:
 		return "math.Log(" + n.kids[0].goSrc(args, locals, fns) + ")", precUnit

@@ -4,8 +4,10 @@ import (
 	"errors"
 	"fmt"
 	"math/big"
+	"runtime"
 	"slices"
 	"strings"
+	"sync"
 	"unicode"
 
 	"loopmatch/expr"
@@ -29,9 +31,17 @@ func (k Kind) String() string {
 
 // Param is a symbol the coefficients may depend on.
 type Param struct {
-	Name string
-	Kind Kind
-	Doc  string // e.g. "xt = mt^2/mW^2"
+	Name     string
+	Kind     Kind
+	Num, Den string // a Ratio's masses: Name = Num^2/Den^2
+}
+
+// Doc describes the parameter in plain text: "xt = mt^2/mW^2" for a ratio, else its name.
+func (p Param) Doc() string {
+	if p.Kind == Ratio && p.Num != "" {
+		return fmt.Sprintf("%s = %s^2/%s^2", p.Name, p.Num, p.Den)
+	}
+	return p.Name
 }
 
 // Coefficient is one Wilson coefficient to emit.
@@ -45,11 +55,11 @@ type Coefficient struct {
 // Spec is what to emit: the coefficients of one match block with their parameters.
 type Spec struct {
 	Package     string
-	Source      string   // the input file, named in the output
-	Title       string   // e.g. "vertex, leg_b, leg_s onto Q7"
-	Conventions []string // scheme, normalisation, …: one line each
-	Scale       string   // the matching scale, e.g. "mu = mS" ("" when μ stays free)
-	Params      []Param  // every symbol that may occur, in the order of the functions' arguments
+	Source      string    // the input file, named in the output
+	Title       string    // e.g. "vertex, leg_b, leg_s onto Q7"
+	Conventions []string  // scheme, normalisation, …: one line each
+	Scale       expr.Expr // the matching scale μ, or zero when μ stays a free parameter
+	Params      []Param   // every symbol that may occur, in the order of the functions' arguments
 	Coeffs      []Coefficient
 	// Values are argument values for the emitted tests and benchmarks (the file's values);
 	// parameters without one get a default.
@@ -83,11 +93,12 @@ type Term struct {
 
 // Part is an auxiliary function of the kinematic variables.
 type Part struct {
-	Index int      // 1, 2, …: F_1, F_2 in documents
-	Vars  []string // its arguments (one: the main variable; several: no stable branches)
-	Expr  expr.Expr
-	fn    *function // stable program (one variable)
-	naive *body     // closed form (several variables)
+	Index  int      // 1, 2, …: F_1, F_2 in documents; 0 for a part written inside its coefficient
+	Vars   []string // its arguments (one: the main variable; several: no stable branches)
+	Expr   expr.Expr
+	fn     *function // stable program (one variable)
+	naive  *body     // closed form (several variables)
+	inline bool
 }
 
 // ErrUnsupported reports a coefficient that has no float64 program (loop integrals, opaque
@@ -108,26 +119,114 @@ func Build(spec Spec) (*Program, error) {
 		}
 		p.Coeffs = append(p.Coeffs, co)
 	}
-	for _, part := range p.Parts {
-		if len(part.Vars) == 1 {
-			fn, err := stabilise(part.Expr, part.Vars[0])
-			if err != nil {
-				return nil, fmt.Errorf("F_%d: %w", part.Index, err)
-			}
-			part.fn = fn
-			for _, n := range fn.notes {
-				p.Notes = append(p.Notes, fmt.Sprintf("F_%d(%s): %s", part.Index, part.Vars[0], n))
-			}
-			continue
+	p.number()
+	// The parts are analysed in parallel; notes and errors are collected in order.
+	notes := make([][]string, len(p.Parts))
+	errs := make([]error, len(p.Parts))
+	var wg sync.WaitGroup
+	sem := make(chan struct{}, runtime.GOMAXPROCS(0))
+	for i, part := range p.Parts {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			sem <- struct{}{}
+			defer func() { <-sem }()
+			notes[i], errs[i] = p.analyse(part)
+		}()
+	}
+	wg.Wait()
+	for i := range p.Parts {
+		if errs[i] != nil {
+			return nil, errs[i]
 		}
-		b, err := closedForm(part.Expr, part.Vars, 256)
-		if err != nil {
-			return nil, fmt.Errorf("F_%d: %w: %v", part.Index, ErrUnsupported, err)
-		}
-		part.naive = b
-		p.Notes = append(p.Notes, fmt.Sprintf("F_%d depends on %s: it is written as its closed form, without series branches (write the result in one mass ratio with a ratio line to get them)", part.Index, strings.Join(part.Vars, ", ")))
+		p.Notes = append(p.Notes, notes[i]...)
 	}
 	return p, nil
+}
+
+// analyse builds the float64 program of a part: stable branches for a function of one variable,
+// the closed form otherwise.
+func (p *Program) analyse(part *Part) ([]string, error) {
+	name := p.partLabel(part)
+	var notes []string
+	if len(part.Vars) == 1 {
+		fn, err := stabilise(part.Expr, part.Vars[0])
+		if err != nil {
+			return nil, fmt.Errorf("%s: %w", name, err)
+		}
+		part.fn = fn
+		for _, n := range fn.notes {
+			notes = append(notes, fmt.Sprintf("%s: %s", name, n))
+		}
+		return notes, nil
+	}
+	b, err := closedForm(part.Expr, part.Vars, 256)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w: %v", name, ErrUnsupported, err)
+	}
+	part.naive = b
+	notes = append(notes, fmt.Sprintf("%s depends on %s: it is written as its closed form, without series branches (write the result in one mass ratio with a ratio line to get them)", name, strings.Join(part.Vars, ", ")))
+	return notes, nil
+}
+
+// number decides which auxiliary functions are written inside their coefficient (a coefficient
+// that is one function of its own arguments, used nowhere else) and numbers the others F_1, F_2,
+// … in order of appearance.
+func (p *Program) number() {
+	uses := map[*Part]int{}
+	for _, c := range p.Coeffs {
+		for _, t := range c.Terms {
+			if t.Part != nil {
+				uses[t.Part]++
+			}
+		}
+	}
+	k := 0
+	for _, part := range p.Parts {
+		part.Index = 0
+	}
+	for _, c := range p.Coeffs {
+		for _, t := range c.Terms {
+			part := t.Part
+			switch {
+			case part == nil || part.Index != 0 || part.inline:
+			case uses[part] == 1 && c.single():
+				part.inline = true
+			default:
+				k++
+				part.Index = k
+			}
+		}
+	}
+}
+
+// single reports whether the coefficient is one auxiliary function of its own arguments.
+func (c *Coeff) single() bool {
+	if len(c.Terms) != 1 || c.Terms[0].Part == nil || !c.Common.Equal(expr.Int(1)) || !c.Terms[0].Factor.Equal(expr.Int(1)) {
+		return false
+	}
+	part := c.Terms[0].Part
+	if len(c.Args) != len(part.Vars) {
+		return false
+	}
+	for i, a := range c.Args {
+		if a.Name != part.Vars[i] {
+			return false
+		}
+	}
+	return true
+}
+
+// partLabel names a part in messages: F_i(vars), or the coefficient it is written in.
+func (p *Program) partLabel(part *Part) string {
+	if part.inline {
+		for _, c := range p.Coeffs {
+			if len(c.Terms) == 1 && c.Terms[0].Part == part {
+				return c.Label
+			}
+		}
+	}
+	return fmt.Sprintf("F%d(%s)", part.Index, strings.Join(part.Vars, ", "))
 }
 
 // baseName strips conj( ) from a symbol.
@@ -387,7 +486,7 @@ func (p *Program) term(g group, vars []string) Term {
 			return Term{Factor: g.factor.Neg(), Part: q}
 		}
 	}
-	q := &Part{Index: len(p.Parts) + 1, Vars: used, Expr: g.part}
+	q := &Part{Vars: used, Expr: g.part}
 	p.Parts = append(p.Parts, q)
 	return Term{Factor: g.factor, Part: q}
 }
