@@ -196,7 +196,7 @@ func runExtended(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Re
 		case prErr != nil:
 			ch.Detail = "poles not spanned by the basis: " + prErr.Error()
 		case numeric:
-			ch.Passed, ch.Detail = numericScaleCheck(cs[i], predicted[i], pt, ptErr)
+			ch.Passed, ch.Detail = numericScaleCheck(cs0[i], predicted[i], pt, ptErr)
 		default:
 			got, err := logMuCoefficient(cs0[i])
 			if err != nil {

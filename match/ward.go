@@ -110,7 +110,7 @@ func wardGeneral(p *notation.Program, mb *notation.MatchBlock, opt Options, part
 				if err != nil {
 					return false, "", err
 				}
-				key := fmt.Sprintf("[eps^%d] %s", k, g.Key)
+				key := fmt.Sprintf("[eps^%d] %s", k, structureText(g))
 				a, ok := groups[key]
 				if !ok {
 					a = &acc{}
@@ -174,4 +174,20 @@ func withWard(p *notation.Program, mb *notation.MatchBlock, opt Options, err err
 		return err
 	}
 	return &WardError{Failed: failed, Err: err}
+}
+
+// structureText prints the structure atoms of a group.
+func structureText(g expr.Group) string {
+	var parts []string
+	for _, a := range g.Atoms {
+		s := a.A.Key()
+		if a.Pow != 1 {
+			s = fmt.Sprintf("%s^%d", s, a.Pow)
+		}
+		parts = append(parts, s)
+	}
+	if len(parts) == 0 {
+		return "1"
+	}
+	return strings.Join(parts, "*")
 }
