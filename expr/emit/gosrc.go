@@ -20,10 +20,17 @@ type goNames struct {
 	params map[string]string // symbol → argument name
 	parts  map[*Part]string  // helper names ("" when written inside its coefficient)
 	fns    funcNames
+	prefix string // of the file's unexported package-level names
 }
 
 func (p *Program) names() goNames {
-	n := goNames{params: map[string]string{}, parts: map[*Part]string{}, fns: funcNames{li2: "li2", cl2: "cl2"}}
+	// Helpers take the first coefficient's name as a prefix, so that files emitted from different
+	// match blocks can share a package.
+	prefix := "emit"
+	if len(p.Coeffs) > 0 {
+		prefix = lowerFirst(p.Coeffs[0].Name)
+	}
+	n := goNames{params: map[string]string{}, parts: map[*Part]string{}, fns: funcNames{li2: prefix + "Li2", cl2: prefix + "Cl2"}, prefix: prefix}
 	for _, par := range p.Spec.Params {
 		n.params[par.Name] = goIdent(par.Name)
 	}

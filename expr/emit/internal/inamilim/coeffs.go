@@ -229,7 +229,7 @@ func Li2Check(x float64) float64 {
 	}
 	d := x - 1
 	d2 := d * d
-	l := li2(-(x - 1))
+	l := iL_B0Li2(-(x - 1))
 	return 1/d + l/d2
 }
 
@@ -382,11 +382,11 @@ func chiralF3(x float64) float64 {
 	return x / d
 }
 
-// li2 returns the real dilogarithm Li2(x) = -∫_0^x log(1 - t)/t dt for x <= 1, and its real
+// iL_B0Li2 returns the real dilogarithm Li2(x) = -∫_0^x log(1 - t)/t dt for x <= 1, and its real
 // part for x > 1: the Bernoulli series Li2(x) = Σ_n B_n u^(n+1)/(n+1)!, u = -log(1 - x), for
 // -1 <= x <= 1/2, and the reflection and inversion formulas elsewhere (L. Lewin, Polylogarithms
 // and Associated Functions, North-Holland 1981, ch. 1). Accurate to a few ulp.
-func li2(x float64) float64 {
+func iL_B0Li2(x float64) float64 {
 	const zeta2 = math.Pi * math.Pi / 6
 	switch {
 	case math.IsNaN(x):
@@ -397,19 +397,19 @@ func li2(x float64) float64 {
 		return zeta2
 	case x > 1:
 		l := math.Log(x)
-		return 2*zeta2 - 0.5*l*l - li2(1/x)
+		return 2*zeta2 - 0.5*l*l - iL_B0Li2(1/x)
 	case x < -1:
 		l := math.Log(-x)
-		return -li2(1/x) - zeta2 - 0.5*l*l
+		return -iL_B0Li2(1/x) - zeta2 - 0.5*l*l
 	case x > 0.5:
-		return zeta2 - math.Log(x)*math.Log1p(-x) - li2Series(1-x)
+		return zeta2 - math.Log(x)*math.Log1p(-x) - iL_B0Li2Series(1-x)
 	}
-	return li2Series(x)
+	return iL_B0Li2Series(x)
 }
 
-// li2Series sums the Bernoulli series of Li2 for -1 <= x <= 1/2; the coefficients are
+// iL_B0Li2Series sums the Bernoulli series of Li2 for -1 <= x <= 1/2; the coefficients are
 // B_(2k+2)/(2k+3)!.
-func li2Series(x float64) float64 {
+func iL_B0Li2Series(x float64) float64 {
 	u := -math.Log1p(-x)
 	u2 := u * u
 	p := 1.3091507554183213e-22
