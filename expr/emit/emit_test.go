@@ -69,6 +69,7 @@ func inamiLimSpec(t testing.TB) Spec {
 	spec.Coeffs = append(spec.Coeffs, Coefficient{Name: "LargeX", Label: "H", Operator: "H", Expr: parseExpr(t, "x^2*log((x + 1)/x) - x")})
 	ny := parseExpr(t, "y*x/(x + 1)")
 	spec.Coeffs = append(spec.Coeffs, Coefficient{Name: "Chiral", Label: "C_Y", Operator: "Y", Expr: ny})
+	spec.Coeffs = append(spec.Coeffs, Coefficient{Name: "Imaginary", Label: "C_I", Operator: "Z", Expr: parseExpr(t, "I*eQF*x/(x + 1)")})
 	return spec
 }
 
@@ -197,6 +198,7 @@ func TestNotesAndErrors(t *testing.T) {
 		{"(x^2 - 2 - log(x))/(x^2 - 2)", "not a rational number", false},
 		{"log(m1^2/m2^2)/(m1^2 - m2^2)", "depends on m1, m2", false},
 		{"g*x/(x + 1)", "", false},
+		{"I*g*x/(x + 1)", "", false},
 		{"B0(x; m1, m1)", "", true},
 		{"h*x", "", true},
 	}

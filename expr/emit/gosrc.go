@@ -255,7 +255,7 @@ func goType(a Param) string {
 }
 
 func (c *Coeff) resultType() string {
-	if c.Complex && !c.Real {
+	if !c.Real {
 		return "complex128"
 	}
 	return "float64"
@@ -537,6 +537,15 @@ func (p *Program) factorGo(e expr.Expr, n goNames) (string, bool, error) {
 	for ti, t := range e.Terms() {
 		num := t.Coef.Num()
 		var cm []string
+		var atoms []expr.AtomPow
+		for _, a := range t.Atoms {
+			if c, ok := a.A.(expr.Const); ok && c == expr.I { // I appears to the first power
+				cm = append(cm, "1i")
+				continue
+			}
+			atoms = append(atoms, a)
+		}
+		t = expr.Term{Coef: t.Coef, Atoms: atoms}
 		if num.Len() == 1 {
 			pt := num.Terms()[0]
 			var keep expr.Mono

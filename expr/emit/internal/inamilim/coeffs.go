@@ -319,6 +319,22 @@ func Chiral(x float64, y complex128) complex128 {
 	return y * complex(chiralF3(x), 0)
 }
 
+// Imaginary returns the Wilson coefficient C_I of the operator
+//
+//	Z
+//
+// in the conventions of the package comment, at the renormalisation scale mu. Its arguments are x
+// = mt^2/mW^2 (positive) and eQF.
+//
+// It is
+//
+//	C_I = eQF*I*F3(x)
+//
+// with the auxiliary functions F3 = chiralF3.
+func Imaginary(x, eQF float64) complex128 {
+	return 1i * complex(eQF, 0) * complex(chiralF3(x), 0)
+}
+
 // dipoleF1 is the auxiliary function
 //
 //	F1(x) = -(x^2 - 5*x - 2)/(24*(x - 1)^3) -
