@@ -21,6 +21,10 @@ func writeOutput(path string, data []byte, inputs ...string) error {
 	dir := filepath.Dir(path)
 	f, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp-*")
 	if err != nil {
+		var pe *os.PathError
+		if errors.As(err, &pe) {
+			err = pe.Err
+		}
 		return fmt.Errorf("cannot write %s: %v", path, err)
 	}
 	tmp := f.Name()
@@ -49,7 +53,8 @@ func writeOutput(path string, data []byte, inputs ...string) error {
 	return nil
 }
 
-// checkNotInput fails when path is one of the inputs.
+// checkNotInput fails when path is one of the inputs, a directory, or in a directory that does
+// not exist (so that commands fail before doing their work).
 func checkNotInput(path string, inputs ...string) error {
 	out, outErr := os.Stat(path)
 	absOut, _ := filepath.Abs(path)
@@ -65,6 +70,9 @@ func checkNotInput(path string, inputs ...string) error {
 	}
 	if outErr == nil && out.IsDir() {
 		return fmt.Errorf("cannot write %s: it is a directory", path)
+	}
+	if st, err := os.Stat(filepath.Dir(path)); err != nil || !st.IsDir() {
+		return fmt.Errorf("cannot write %s: the directory %s does not exist", path, filepath.Dir(path))
 	}
 	return nil
 }

@@ -210,6 +210,7 @@ func TestScanErrors(t *testing.T) {
 		{[]string{"scan", input, "--vary", "xt=1:2", "--vary", "xt=1:3"}, "varied twice"},
 		{[]string{"scan", input, "--vary", "nosuch=1:2"}, "not declared"},
 		{[]string{"scan", input, "--vary", "xt=1:2", "--out", input}, "refusing to overwrite an input file"},
+		{[]string{"scan", input, "--vary", "xt=1:2", "--out", filepath.Join(dir, "no", "t.tsv")}, "does not exist"},
 		{[]string{"scan", input, "--vary", "xt=1:2", "--plot", filepath.Join(dir, "a.jpg")}, ".svg or .png"},
 		{[]string{"scan", input, "--vary", "xt=1:2", "--plot", filepath.Join(dir, "a.png"), "--size", "10x10"}, "--size"},
 		{[]string{"scan", input, "--vary", "xt=1:2", "--set", "xt=3"}, "both varied and set"},
