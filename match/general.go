@@ -223,3 +223,54 @@ func zeroMomentumBubbles(e expr.Expr) (expr.Expr, error) {
 		return tad(x).Sub(tad(y)).Scale(c), true
 	})
 }
+
+// ReduceGeneral reduces e on the general route at the on-shell kinematics of the legs of p:
+// one-loop integrals become Passarino–Veltman combinations of the scalar integrals (loops.Atom:
+// Tad, Bub, Tri, Box, exact in d, the loop factor i/(16π²) included), tree-level propagators
+// are evaluated, and the Dirac algebra is applied with on-shell legs. Scalar products of
+// external momenta that the legs leave free become symbols named like the product ("p.q").
+// The notes list scaleless integrals set to zero and dropped evanescent remainders.
+func ReduceGeneral(p *notation.Program, e expr.Expr, opt Options) (expr.Expr, []string, error) {
+	canon, err := NewCanon(p, passarino.Small{}, false, opt)
+	if err != nil {
+		return expr.Expr{}, nil, err
+	}
+	if e, err = resolveOnShell(p, e); err != nil {
+		return expr.Expr{}, nil, err
+	}
+	dot := func(a, b string) (expr.RatFunc, error) {
+		x, err := canon.kin.Apply(expr.FromAtom(expr.NewDot(a, b), 1))
+		if err != nil {
+			return expr.RatFunc{}, err
+		}
+		if x, err = x.MapAtoms(func(at expr.Atom) (expr.Expr, bool) {
+			d, ok := at.(expr.Dot)
+			if !ok {
+				return expr.Expr{}, false
+			}
+			return expr.Sym(d.Key()), true
+		}); err != nil {
+			return expr.RatFunc{}, err
+		}
+		r, ok := x.AsRatFunc()
+		if !ok {
+			return expr.RatFunc{}, fmt.Errorf("the scalar product %s.%s is not a parameter expression: %s", a, b, x)
+		}
+		return r, nil
+	}
+	red, info, err := passarino.General(e, dot)
+	if err != nil {
+		return expr.Expr{}, nil, err
+	}
+	var notes []string
+	for _, s := range info.Scaleless {
+		notes = append(notes, "scaleless integral set to zero: "+s)
+	}
+	if red, err = treeProps(red, dot); err != nil {
+		return expr.Expr{}, nil, err
+	}
+	if red, err = canon.Apply(red); err != nil {
+		return expr.Expr{}, nil, err
+	}
+	return red, append(notes, canon.Notes...), nil
+}

@@ -19,7 +19,12 @@ var reduceCmd = &command{
 	name:    "reduce",
 	summary: "reduce the loop integrals of each amplitude",
 	usage:   "FILE [--expand p,q:ORDER] [--format text|latex|json]",
-	help: `reduce prints each amplitude of FILE with its loop integrals reduced. With --expand, the
+	help: `reduce prints each amplitude of FILE with its loop integrals reduced. Without --expand
+(the general route) every one-loop integral is reduced by Passarino–Veltman at the on-shell
+kinematics of the legs and each amplitude is printed as a combination of the scalar integrals
+Tad(M0^2) = A0, Bub(p^2; M0^2, M1^2) = B0, Tri(…; …) = C0, Box(…; …) = D0 (squared masses),
+exact in d, with the loop factor i/(16 pi^2) included; scalar products the legs leave free are
+kept as symbols (p.q). With --expand, the
 propagators are Taylor-expanded in the listed small quantities (external momenta and light
 masses) to the given total order, tensor integrals are reduced by symmetric integration and the
 vacuum integrals are evaluated exactly in d; fermion-loop traces and Dirac chains are simplified
@@ -100,8 +105,7 @@ func runReduce(args []string, out, errOut io.Writer) int {
 		return exitBadInput
 	}
 	if o.expand == "" {
-		fmt.Fprintln(errOut, "loopmatch reduce: the general route (Passarino–Veltman) is not available yet; use --expand NAMES:ORDER for the heavy-mass expansion")
-		return exitBadInput
+		return reduceGeneral(p, o.format.value, out, errOut)
 	}
 	small, err := parseExpand(p, o.expand)
 	if err != nil {
