@@ -1,6 +1,7 @@
 package expr
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"math/big"
@@ -14,6 +15,9 @@ import (
 // This file evaluates expressions numerically: in complex128, and in arbitrary precision with
 // the precision (in bits) as a parameter. A symbol "conj(y)" takes the value given for it, or
 // else the complex conjugate of the value of y.
+
+// errVanishing marks a denominator that is zero at the values of an evaluation.
+var errVanishing = errors.New("vanishes at these values")
 
 // lookup returns the value of a symbol.
 func lookup(vals map[string]complex128, v string) (complex128, error) {
@@ -174,32 +178,41 @@ func evalAtom(a Atom, vals map[string]complex128) (complex128, error) {
 // EvalBig evaluates e with prec bits of precision. Values are given as arbitrary-precision
 // complex numbers.
 func (e Expr) EvalBig(vals map[string]specfun.Complex, prec uint) (specfun.Complex, error) {
+	sum, _, err := e.evalBig(vals, prec)
+	return sum, err
+}
+
+// evalBig returns the value of e and the sum of the magnitudes of its terms (the scale against
+// which cancellations are measured).
+func (e Expr) evalBig(vals map[string]specfun.Complex, prec uint) (specfun.Complex, *big.Float, error) {
 	sum := specfun.NewComplex(0, 0, prec)
+	scale := new(big.Float).SetPrec(prec)
 	for _, t := range e.terms {
 		if len(t.Loops) > 0 || len(t.NC) > 0 {
-			return specfun.Complex{}, fmt.Errorf("cannot evaluate %s numerically: it is a loop integral or a Dirac string", t)
+			return specfun.Complex{}, nil, fmt.Errorf("cannot evaluate %s numerically: it is a loop integral or a Dirac string", t)
 		}
 		x, err := t.Coef.EvalBig(vals, prec)
 		if err != nil {
-			return specfun.Complex{}, err
+			return specfun.Complex{}, nil, err
 		}
 		for _, a := range t.Atoms {
 			v, err := evalAtomBig(a.A, vals, prec)
 			if err != nil {
-				return specfun.Complex{}, err
+				return specfun.Complex{}, nil, err
 			}
 			n := a.Pow
 			if n < 0 {
 				if v.IsZero() {
-					return specfun.Complex{}, fmt.Errorf("%s vanishes in a denominator", a.A.Key())
+					return specfun.Complex{}, nil, fmt.Errorf("%s in a denominator %w", a.A.Key(), errVanishing)
 				}
 				v, n = v.Inv(), -n
 			}
 			x = x.Mul(bigPow(v, n, prec))
 		}
 		sum = sum.Add(x)
+		scale.Add(scale, x.Abs())
 	}
-	return sum, nil
+	return sum, scale, nil
 }
 
 func bigPow(z specfun.Complex, n int, prec uint) specfun.Complex {
@@ -258,7 +271,7 @@ func (r RatFunc) EvalBig(vals map[string]specfun.Complex, prec uint) (specfun.Co
 		return specfun.Complex{}, err
 	}
 	if d.IsZero() {
-		return specfun.Complex{}, fmt.Errorf("the denominator %s vanishes at these values", r.den)
+		return specfun.Complex{}, fmt.Errorf("the denominator %s %w", r.den, errVanishing)
 	}
 	return n.Quo(d), nil
 }

@@ -174,7 +174,7 @@ func runMatch(args []string, out, errOut io.Writer) int {
 			}
 			mo.at = valuesText(p, vals)
 			for _, c := range r.Coeffs {
-				v, err := c.Value.Eval(vals)
+				v, err := c.Value.EvalAccurate(vals) // exact value to float64 accuracy: closed forms cancel near equal masses
 				if err != nil {
 					mo.numErr = err
 					break
