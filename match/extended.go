@@ -378,6 +378,9 @@ func numericEqual(a, b expr.Expr, pt point) (bool, string) {
 }
 
 func fmtC(z complex128) string {
+	if math.Abs(imag(z)) <= 1e-30*math.Abs(real(z)) { // rounding residue of the arbitrary-precision sum
+		z = complex(real(z), 0)
+	}
 	if imag(z) == 0 {
 		return fmt.Sprintf("%.12g", real(z))
 	}
