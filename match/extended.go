@@ -96,11 +96,11 @@ func runExtended(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Re
 	eftLoop, eftTree := split(eft)
 	var ser [4]expr.Series // full loop, full tree, EFT loop, EFT tree
 	for i, e := range []expr.Expr{fullLoop, fullTree, eftLoop, eftTree} {
-		if ser[i], err = reduce(e); err != nil {
-			return nil, wrap(err)
-		}
 		if maxLoops(e) > 1 {
 			return nil, wrap(fmt.Errorf("the general route and off-shell matching are one-loop only"))
+		}
+		if ser[i], err = reduce(e); err != nil {
+			return nil, wrap(err)
 		}
 	}
 	diff := ser[0].Add(ser[1]).Sub(ser[2]).Sub(ser[3])
@@ -119,11 +119,19 @@ func runExtended(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Re
 		return nil, err
 	}
 	numeric := rt.numericAtoms()
-	finite, dropped := dropPowerSuppressed(finite, basis, momentaOf(p))
-	finite0, _ = dropPowerSuppressed(finite0, basis, momentaOf(p))
-	pole, _ = dropPowerSuppressed(pole, basis, momentaOf(p))
+	// Off shell on the general route the external momenta are small regulators: structures
+	// with them that the basis lacks are power corrections. Elsewhere they are errors.
+	leading := func(e expr.Expr) (expr.Expr, int) {
+		if mb.Route != "general" || !mb.OffShell {
+			return e, 0
+		}
+		return dropPowerSuppressed(e, basis, momentaOf(p))
+	}
+	finite, dropped := leading(finite)
+	finite0, _ = leading(finite0)
+	pole, _ = leading(pole)
 	if dropped > 0 {
-		notes = append(notes, fmt.Sprintf("%d structures with external momenta that the basis does not contain were dropped as power corrections", dropped))
+		notes = append(notes, fmt.Sprintf("%d structures with external momenta that the basis does not contain were dropped as power corrections (off shell, small momenta)", dropped))
 	}
 	cs, err := Project(finite, basis)
 	if err != nil {
@@ -169,11 +177,11 @@ func runExtended(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Re
 	}
 	res.Checks = append(res.Checks, uvCheck)
 	if len(mb.EFT) > 0 || mb.Route == "general" {
-		res.Checks = append(res.Checks, irPoleCheck(p, mb, canon, eft, pole, basis))
+		res.Checks = append(res.Checks, irPoleCheck(p, mb, canon, eft, pole, basis, leading))
 	}
 	// Scale dependence: ∂C/∂ln μ = 2 × (the residue of the loop poles of full minus EFT).
 	loopPole := ser[0].Coef(-1).Sub(ser[2].Coef(-1)).Scale(expr.RFInt(2))
-	loopPole, _ = dropPowerSuppressed(loopPole, basis, momentaOf(p))
+	loopPole, _ = leading(loopPole)
 	predicted, prErr := Project(loopPole, basis)
 	var pt point
 	var ptErr error
@@ -306,7 +314,7 @@ func uvPoleCheck(p *notation.Program, mb *notation.MatchBlock, canon *Canon, ful
 // irPoleCheck checks that what remains of the 1/ε poles of full minus effective theory is
 // ultraviolet: the effective theory's counterterms in the declared basis, the infrared poles
 // having cancelled between the two sides (same regulator).
-func irPoleCheck(p *notation.Program, mb *notation.MatchBlock, canon *Canon, eft, pole expr.Expr, basis []expr.Expr) Check {
+func irPoleCheck(p *notation.Program, mb *notation.MatchBlock, canon *Canon, eft, pole expr.Expr, basis []expr.Expr, leading func(expr.Expr) (expr.Expr, int)) Check {
 	ch := Check{Name: "infrared poles cancel between full and effective theory; the rest are EFT counterterms"}
 	var onShell []passarino.OnShellMomentum
 	if !mb.OffShell {
@@ -323,7 +331,7 @@ func irPoleCheck(p *notation.Program, mb *notation.MatchBlock, canon *Canon, eft
 		ch.Detail = "EFT ultraviolet poles: " + err.Error()
 		return ch
 	}
-	uvE, _ = dropPowerSuppressed(uvE, basis, momentaOf(p))
+	uvE, _ = leading(uvE)
 	// full: its UV poles are cancelled by its counterterms (checked separately), so the pole of
 	// full − EFT must be −(EFT UV pole) if the infrared poles cancel.
 	ir := pole.Add(uvE)

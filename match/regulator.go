@@ -244,6 +244,11 @@ func laurentIn(r expr.RatFunc, v string) ([]expr.RatFunc, int, error) {
 // regulators must cancel (changes that shrink like the powers, not like logarithms).
 func numericChecks(p *notation.Program, mb *notation.MatchBlock, res *Result, pt point) []Check {
 	var out []Check
+	for _, r := range mb.Regulators {
+		if v, ok := pt[r]; !ok || v == 0 {
+			return []Check{{Name: "regulator logarithms cancel in full minus effective theory (numerically)", Detail: fmt.Sprintf("the regulator %s needs a nonzero value (values %s = …)", r, r)}}
+		}
+	}
 	vals := make([][]complex128, 3)
 	scales := []float64{1, 0.1, 0.01}
 	for si, s := range scales {
