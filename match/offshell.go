@@ -17,11 +17,10 @@ import (
 // the physical operators; with "offshell report" the off-shell coefficients follow, named
 // "NAME (off shell)".
 func applyEOM(p *notation.Program, mb *notation.MatchBlock, opt Options, res *Result) error {
+	// on-shell matrix elements: the legs' kinematics only (the block's kinematics lines give
+	// off-shell values)
 	on, err := NewCanon(p, passarino.Small{}, false, opt)
 	if err != nil {
-		return err
-	}
-	if err := on.kin.addLines(mb.Kinematics); err != nil {
 		return err
 	}
 	var phys []string
