@@ -69,6 +69,15 @@ func combination(inv notation.Invariant, res *Result) (expr.Expr, error) {
 	if !ok {
 		return expr.Expr{}, fmt.Errorf("invariant %s is not a rational combination", inv.Text)
 	}
+	have := map[string]bool{}
+	for _, c := range res.Coeffs {
+		have["C_"+c.Operator] = true
+	}
+	for _, v := range r.Vars() {
+		if strings.HasPrefix(v, "C_") && !have[v] {
+			return expr.Expr{}, fmt.Errorf("invariant %s uses %s, which is not a coefficient of the result (an eom operator is removed on shell)", inv.Text, v)
+		}
+	}
 	out := expr.Zero()
 	for _, c := range res.Coeffs {
 		w := r.Derivative("C_" + c.Operator)
