@@ -3,6 +3,7 @@ package match
 import (
 	"fmt"
 	"math/cmplx"
+	"slices"
 	"strings"
 
 	"loopmatch/expr"
@@ -73,8 +74,12 @@ func combination(inv notation.Invariant, res *Result) (expr.Expr, error) {
 	for _, c := range res.Coeffs {
 		have["C_"+c.Operator] = true
 	}
+	var ops []string
+	if res.Block != nil {
+		ops = res.Block.Ops
+	}
 	for _, v := range r.Vars() {
-		if strings.HasPrefix(v, "C_") && !have[v] {
+		if op, ok := strings.CutPrefix(v, "C_"); ok && slices.Contains(ops, op) && !have[v] {
 			return expr.Expr{}, fmt.Errorf("invariant %s uses %s, which is not a coefficient of the result (an eom operator is removed on shell)", inv.Text, v)
 		}
 	}
