@@ -119,20 +119,19 @@ func runExtended(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Re
 		return nil, err
 	}
 	numeric := rt.numericAtoms()
-	// Off shell on the general route the external momenta are small regulators: structures
-	// with them that the basis lacks are power corrections. Elsewhere they are errors.
-	leading := func(e expr.Expr) (expr.Expr, int) {
-		if mb.Route != "general" || !mb.OffShell {
-			return e, 0
+	// On the general route with small external momenta (off shell, or kinematics in terms of
+	// the regulators) structures with them that the basis lacks are power corrections; they
+	// are dropped here and their size is checked numerically below. Elsewhere they are errors.
+	smallMomenta := mb.Route == "general" && (mb.OffShell || kinematicsUseRegulators(mb))
+	leading := func(e expr.Expr) (expr.Expr, expr.Expr) {
+		if !smallMomenta {
+			return e, expr.Zero()
 		}
 		return dropPowerSuppressed(e, basis, momentaOf(p))
 	}
-	finite, dropped := leading(finite)
+	finite, droppedFinite := leading(finite)
 	finite0, _ = leading(finite0)
-	pole, _ = leading(pole)
-	if dropped > 0 {
-		notes = append(notes, fmt.Sprintf("%d structures with external momenta that the basis does not contain were dropped as power corrections (off shell, small momenta)", dropped))
-	}
+	pole, droppedPole := leading(pole)
 	cs, err := Project(finite, basis)
 	if err != nil {
 		return nil, withWard(p, mb, opt, err)
@@ -222,6 +221,9 @@ func runExtended(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Re
 		} else {
 			res.Checks = append(res.Checks, numericChecks(p, mb, res, pt)...)
 		}
+	}
+	if !droppedFinite.IsZero() || !droppedPole.IsZero() {
+		res.Checks = append(res.Checks, powerCheck(p, mb, droppedFinite.Add(droppedPole), finite.Add(pole)))
 	}
 	if mb.OffShell && len(mb.EOM) > 0 {
 		if err := applyEOM(p, mb, opt, res); err != nil {
@@ -314,7 +316,7 @@ func uvPoleCheck(p *notation.Program, mb *notation.MatchBlock, canon *Canon, ful
 // irPoleCheck checks that what remains of the 1/ε poles of full minus effective theory is
 // ultraviolet: the effective theory's counterterms in the declared basis, the infrared poles
 // having cancelled between the two sides (same regulator).
-func irPoleCheck(p *notation.Program, mb *notation.MatchBlock, canon *Canon, eft, pole expr.Expr, basis []expr.Expr, leading func(expr.Expr) (expr.Expr, int)) Check {
+func irPoleCheck(p *notation.Program, mb *notation.MatchBlock, canon *Canon, eft, pole expr.Expr, basis []expr.Expr, leading func(expr.Expr) (expr.Expr, expr.Expr)) Check {
 	ch := Check{Name: "infrared poles cancel between full and effective theory; the rest are EFT counterterms"}
 	var onShell []passarino.OnShellMomentum
 	if !mb.OffShell {

@@ -2,6 +2,7 @@ package match
 
 import (
 	"fmt"
+	"math"
 	"math/cmplx"
 	"slices"
 	"strings"
@@ -108,31 +109,140 @@ func hasMomentum(a expr.Atom, moms []string) bool {
 	return false
 }
 
+// kinematicsUseRegulators reports whether a kinematics line of the block is written in terms
+// of its regulators (small external momenta).
+func kinematicsUseRegulators(mb *notation.MatchBlock) bool {
+	for _, l := range mb.Kinematics {
+		for _, v := range l.Value.Vars() {
+			if slices.Contains(mb.Regulators, v) {
+				return true
+			}
+		}
+	}
+	return false
+}
+
 // dropPowerSuppressed removes the structures of e that the basis does not contain and that
-// carry external momenta: at leading power in small (off-shell) momenta they are corrections
-// suppressed by powers of the momenta over the heavy masses. It returns the rest and how many
-// structures were dropped.
-func dropPowerSuppressed(e expr.Expr, basis []expr.Expr, moms []string) (expr.Expr, int) {
+// carry external momenta: at leading power in small momenta they are corrections suppressed by
+// powers of the momenta over the heavy masses. It returns the rest and the dropped part.
+func dropPowerSuppressed(e expr.Expr, basis []expr.Expr, moms []string) (expr.Expr, expr.Expr) {
 	known := map[string]bool{}
 	for _, b := range basis {
 		for _, g := range b.Collect(IsStructure) {
 			known[g.Key] = true
 		}
 	}
-	out := expr.Zero()
-	dropped := 0
+	out, dropped := expr.Zero(), expr.Zero()
 	for _, g := range e.Collect(IsStructure) {
-		if !known[g.Key] && slices.ContainsFunc(g.Atoms, func(a expr.AtomPow) bool { return hasMomentum(a.A, moms) }) {
-			dropped++
-			continue
-		}
 		s := g.Coef
 		for _, a := range g.Atoms {
 			s = s.MustMul(expr.FromAtom(a.A, a.Pow))
 		}
+		if !known[g.Key] && slices.ContainsFunc(g.Atoms, func(a expr.AtomPow) bool { return hasMomentum(a.A, moms) }) {
+			dropped = dropped.Add(s)
+			continue
+		}
 		out = out.Add(s)
 	}
 	return out, dropped
+}
+
+// momentumPower counts the external momenta in a structure (slashes, vectors, scalar products,
+// Levi-Civita slots), each counted once per occurrence.
+func momentumPower(atoms []expr.AtomPow, moms []string) int {
+	n := 0
+	for _, a := range atoms {
+		k := 0
+		switch x := a.A.(type) {
+		case expr.Dot:
+			for _, m := range []string{x.A, x.B} {
+				if slices.Contains(moms, m) {
+					k++
+				}
+			}
+		case expr.Vec:
+			if slices.Contains(moms, x.P) {
+				k++
+			}
+		case expr.Levi:
+			for _, sl := range x.S {
+				if !sl.Index && slices.Contains(moms, sl.Name) {
+					k++
+				}
+			}
+		case expr.Chain:
+			for _, el := range x.Elems {
+				if el.Op == expr.NCSlash && slices.Contains(moms, el.Args[0]) {
+					k++
+				}
+			}
+		}
+		n += k * a.Pow
+	}
+	return n
+}
+
+// powerCheck checks numerically that the structures dropped as power corrections are small:
+// each dropped coefficient times Λ^n (n external momenta in the structure, Λ² the largest
+// |p_i·p_j| at the point) must shrink when the regulators shrink tenfold (at least like one
+// power), or be below 1e-10 of the largest kept coefficient.
+func powerCheck(p *notation.Program, mb *notation.MatchBlock, dropped, kept expr.Expr) Check {
+	ch := Check{Name: "structures dropped as power corrections (small external momenta) vanish at leading power"}
+	pt, err := pointOf(p, mb)
+	if err != nil {
+		ch.Detail = "needs numerical values: " + err.Error()
+		return ch
+	}
+	dot, err := blockDot(p, mb)
+	if err != nil {
+		ch.Detail = err.Error()
+		return ch
+	}
+	moms := momentaOf(p)
+	size := func(q point) (drop, keep float64, err error) {
+		lam2 := 0.0
+		for _, a := range moms {
+			for _, b := range moms {
+				r, err := dot(a, b)
+				if err != nil {
+					continue
+				}
+				v, err := EvalFinite(expr.FromRF(r), q)
+				if err != nil {
+					return 0, 0, err
+				}
+				lam2 = max(lam2, cmplx.Abs(v))
+			}
+		}
+		for _, g := range dropped.Collect(IsStructure) {
+			v, err := EvalFinite(g.Coef, q)
+			if err != nil {
+				return 0, 0, err
+			}
+			drop = max(drop, cmplx.Abs(v)*math.Pow(lam2, float64(momentumPower(g.Atoms, moms))/2))
+		}
+		for _, g := range kept.Collect(IsStructure) {
+			v, err := EvalFinite(g.Coef, q)
+			if err != nil {
+				return 0, 0, err
+			}
+			keep = max(keep, cmplx.Abs(v))
+		}
+		return drop, keep, nil
+	}
+	d1, k1, err1 := size(pt)
+	ch10 := map[string]float64{}
+	for _, r := range mb.Regulators {
+		ch10[r] = pt[r] / 10
+	}
+	d2, _, err2 := size(pt.with(ch10))
+	if err1 != nil || err2 != nil {
+		ch.Detail = fmt.Sprintf("evaluation failed: %v %v", err1, err2)
+		return ch
+	}
+	ch.Passed = d1 <= 1e-10*k1 || (len(mb.Regulators) > 0 && d2 <= 0.2*d1)
+	ch.Detail = fmt.Sprintf("%d dropped structures: largest size %.3g at the point, %.3g at the regulators /10 (largest kept coefficient %.3g)", len(dropped.Collect(IsStructure)), d1, d2, k1)
+	return ch
 }
 
 // leadingPower returns the limit of e as the regulator reg → 0 at leading power: the
