@@ -129,20 +129,34 @@ func runExtended(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Re
 		}
 		return dropPowerSuppressed(e, basis, momentaOf(p))
 	}
-	finite, droppedFinite := leading(finite)
+	_, droppedFinite := leading(finite)
 	finite0, _ = leading(finite0)
 	pole, droppedPole := leading(pole)
-	cs, err := Project(finite, basis)
+	// C(ε) solves (full − EFT)(ε) = Σ_i C_i(ε) i N ⟨Q_i⟩(ε) order by order (ProjectSeries): the
+	// canonical form of the operators may depend on d.
+	bser, err := EpsBasis(basis, 2, p.Positive)
 	if err != nil {
+		return nil, err
+	}
+	for i, b := range bser {
+		basis[i] = b.Coef(0)
+	}
+	lead := expr.Series{Lo: -1, C: []expr.Expr{pole, finite0}, Order: 1}
+	proj, perrs := ProjectSeries(lead, bser)
+	if err := perrs[0]; err != nil {
 		return nil, withWard(p, mb, opt, err)
 	}
-	cs0 := cs
+	cs0 := proj[0]
+	cs := cs0
 	if mb.ScaleSet {
-		if cs0, err = Project(finite0, basis); err != nil {
-			return nil, err
+		cs = make([]expr.Expr, len(cs0))
+		for i, c := range cs0 {
+			if cs[i], err = setScale(c, mb.Scale); err != nil {
+				return nil, err
+			}
 		}
 	}
-	poleC, perr := Project(pole, basis)
+	poleC, perr := proj[-1], perrs[-1]
 	// Leading power in the regulators (closed forms only; numerically it is a check).
 	if !numeric && len(mb.Regulators) > 0 {
 		ch := Check{Name: "regulator logarithms cancel in full minus effective theory (" + strings.Join(mb.Regulators, ", ") + " → 0)", Passed: true}

@@ -1,6 +1,7 @@
 package match
 
 import (
+	"errors"
 	"fmt"
 	"maps"
 	"slices"
@@ -234,14 +235,8 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 	if maxL == 2 {
 		res.Conventions = append(res.Conventions, "two loops: the loop measure carries mu^(2 eps) per loop; counterterms are the ones written in the file")
 	}
-	finite0, pole := ser.Coef(0), ser.Coef(-1) // finite0 keeps the symbolic μ
-	finite := finite0
-	if mb.ScaleSet {
-		if finite, err = setScale(finite0, mb.Scale); err != nil {
-			return nil, err
-		}
-	}
-	// Operators: i·N·⟨Q_i⟩.
+	// Operators: i·N·⟨Q_i⟩, in canonical form and expanded in ε (their canonical form may
+	// depend on d).
 	iN := mb.Norm.MustMul(expr.FromAtom(expr.I, 1))
 	basis := make([]expr.Expr, len(mb.Ops))
 	for i, name := range mb.Ops {
@@ -257,35 +252,60 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 			return nil, err
 		}
 	}
-	cs, err := Project(finite, basis)
+	bser, err := EpsBasis(basis, 1-min(ser.Lo, 0), p.Positive)
 	if err != nil {
-		return nil, withWard(p, mb, opt, err) // issue 7 hook: report a failed Ward identity with the projection error
+		return nil, err
 	}
-	cs0 := cs
-	if mb.ScaleSet {
-		if cs0, err = Project(finite0, basis); err != nil {
-			return nil, err
-		}
+	b0 := make([]expr.Expr, len(basis))
+	for i, b := range bser {
+		b0[i] = b.Coef(0)
 	}
-	// Checks of the poles.
-	var irC []expr.Expr // nil when the poles are not spanned by the basis
+	// Checks of the poles; at one loop the ultraviolet part uvTotal must vanish, the rest are
+	// EFT counterterms.
+	uvTotal := expr.Zero()
 	if maxL < 2 {
-		if irC, err = oneLoopPoles(p, pl, res, full, pole, small, basis); err != nil {
+		if uvTotal, err = oneLoopPoles(p, pl, res, full, ser.Coef(-1), small, b0); err != nil {
 			return nil, err
 		}
 	} else {
-		irC = twoLoopPoles(pl, res, ser, basis)
+		twoLoopPoles(pl, res, ser, bser)
 	}
-	// Scale dependence: ∂C/∂ln μ = Σ_L 2L × (1/ε residue of the L-loop part), since that part
-	// carries μ^{2Lε} (at one loop: twice the residue of the loop poles).
-	loopPole := expr.Zero()
+	// Coefficients: C(ε) solves A(ε) − uvTotal/ε = Σ_i C_i(ε) i N ⟨Q_i⟩(ε); C(0) is the MS-bar
+	// coefficient (finite0 keeps the symbolic μ), C(−1) the EFT counterterm.
+	uvSer := expr.Series{Lo: -1, C: make([]expr.Expr, ser.Order+1), Order: ser.Order}
+	uvSer.C[0] = uvTotal
+	serIR := ser.Sub(uvSer)
+	proj, perrs := ProjectSeries(serIR, bser)
+	if err := perrs[0]; err != nil {
+		return nil, withWard(p, mb, opt, err) // issue 7 hook: report a failed Ward identity with the projection error
+	}
+	cs0 := proj[0]
+	cs := cs0
+	if mb.ScaleSet {
+		cs = make([]expr.Expr, len(cs0))
+		for i, c := range cs0 {
+			if cs[i], err = setScale(c, mb.Scale); err != nil {
+				return nil, err
+			}
+		}
+	}
+	irC := proj[-1] // nil when the poles are not spanned by the basis
+	// Scale dependence: ∂C/∂ln μ = Σ_L 2L × (1/ε part of the projected L-loop part), since that
+	// part carries μ^{2Lε} (at one loop: twice the residue of the loop poles).
+	predicted := make([]expr.Expr, len(basis))
+	var perr error
 	for L, s := range serL {
-		loopPole = loopPole.Add(s.Coef(-1).Scale(expr.RFInt(int64(2 * L))))
+		ps, errs := ProjectSeries(s, bser)
+		if errs[-1] != nil || errs[-2] != nil {
+			perr = errors.Join(errs[-2], errs[-1])
+			break
+		}
+		for i := range predicted {
+			if ps[-1] != nil {
+				predicted[i] = predicted[i].Add(ps[-1][i].Scale(expr.RFInt(int64(2 * L))))
+			}
+		}
 	}
-	if loopPole, err = pl.Apply(loopPole); err != nil {
-		return nil, err
-	}
-	predicted, perr := Project(loopPole, basis)
 	for i, c := range cs {
 		coef := Coefficient{Operator: mb.Ops[i], Value: c, InRatios: c}
 		for _, r := range mb.Ratios {
@@ -334,19 +354,19 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 }
 
 // oneLoopPoles checks that the ultraviolet poles of the full amplitude (large-momentum expansion
-// of the loop terms) are cancelled by the counterterms written as tree terms, and projects the
-// remaining infrared poles onto the basis; it appends both checks to res and returns the
-// projections (nil when the basis does not span them).
-func oneLoopPoles(p *notation.Program, pl *Canon, res *Result, full, pole expr.Expr, small passarino.Small, basis []expr.Expr) ([]expr.Expr, error) {
+// of the loop terms) are cancelled by the counterterms written as tree terms, and that the
+// remaining infrared poles are EFT counterterms in the basis (b0: the operators at d = 4); it
+// appends both checks to res and returns what is left of the ultraviolet pole.
+func oneLoopPoles(p *notation.Program, pl *Canon, res *Result, full, pole expr.Expr, small passarino.Small, b0 []expr.Expr) (expr.Expr, error) {
 	uv, err := passarino.UVPole(full, massSymbols(p), small.OnShell)
 	if err != nil {
-		return nil, err
+		return expr.Expr{}, err
 	}
 	if uv, err = pl.Apply(uv); err != nil {
-		return nil, err
+		return expr.Expr{}, err
 	}
 	if uv, err = uv.Subst(expr.DimSymbol, expr.RFInt(4)); err != nil { // residue at d = 4
-		return nil, err
+		return expr.Expr{}, err
 	}
 	var tree expr.Expr
 	for _, t := range full.Terms() {
@@ -356,11 +376,11 @@ func oneLoopPoles(p *notation.Program, pl *Canon, res *Result, full, pole expr.E
 	}
 	treeSer, err := vacuum.ExpandEps(tree, 1, p.Positive)
 	if err != nil {
-		return nil, err
+		return expr.Expr{}, err
 	}
 	ctPole, err := pl.Apply(treeSer.Coef(-1))
 	if err != nil {
-		return nil, err
+		return expr.Expr{}, err
 	}
 	uvTotal := uv.Add(ctPole)
 	res.Checks = append(res.Checks, Check{
@@ -368,60 +388,50 @@ func oneLoopPoles(p *notation.Program, pl *Canon, res *Result, full, pole expr.E
 		Passed: uvTotal.IsZero(),
 		Detail: describe("remaining UV pole coefficient of 1/eps", uvTotal),
 	})
-	irC, irErr := Project(pole.Sub(uvTotal), basis)
-	irCheck := Check{Name: "infrared poles of the full theory are EFT counterterms in the declared basis", Passed: irErr == nil}
-	switch {
-	case irErr != nil:
-		irCheck.Detail = irErr.Error()
-	case pole.Sub(uvTotal).IsZero():
-		irCheck.Detail = "no infrared poles (no EFT counterterm at this order)"
-	default:
-		var parts []string
-		for i, c := range irC {
-			parts = append(parts, fmt.Sprintf("dC_%s = %s", res.Block.Ops[i], c))
-		}
-		irCheck.Detail = "EFT counterterms (coefficients of 1/eps): " + strings.Join(parts, "; ")
-	}
-	res.Checks = append(res.Checks, irCheck)
-	if irErr != nil {
-		return nil, nil
-	}
-	return irC, nil
+	ir := pole.Sub(uvTotal)
+	irC, irErr := Project(ir, b0)
+	res.Checks = append(res.Checks, poleCheck("infrared poles of the full theory are EFT counterterms in the declared basis", res.Block.Ops, 1, ir, irC, irErr, "no infrared poles (no EFT counterterm at this order)"))
+	return uvTotal, nil
 }
 
 // twoLoopPoles checks the poles of a two-loop amplitude whose counterterms are written in the
-// file: what remains of 1/ε² and 1/ε must be EFT counterterms in the declared basis. The split of
-// the poles into ultraviolet and infrared ones is not made at two loops. It returns the
-// projection of the 1/ε poles (nil when the basis does not span them).
-func twoLoopPoles(pl *Canon, res *Result, ser expr.Series, basis []expr.Expr) []expr.Expr {
-	var c1 []expr.Expr
-	ops := res.Block.Ops
+// file: what remains of 1/ε² and 1/ε must be EFT counterterms in the declared basis, projected
+// order by order (ProjectSeries). The split of the poles into ultraviolet and infrared ones is
+// not made at two loops.
+func twoLoopPoles(pl *Canon, res *Result, ser expr.Series, bser []expr.Series) {
+	proj, errs := ProjectSeries(ser, bser)
 	for _, k := range []int{-2, -1} {
+		name := fmt.Sprintf("1/eps^%d poles after the counterterms of the file are EFT counterterms in the declared basis (two loops: no UV/IR split)", -k)
 		pole, err := pl.Apply(ser.Coef(k))
-		if err == nil {
-			var cs []expr.Expr
-			if cs, err = Project(pole, basis); err == nil && k == -1 {
-				c1 = cs
-			}
-			ch := Check{Name: fmt.Sprintf("1/eps^%d poles after the counterterms of the file are EFT counterterms in the declared basis (two loops: no UV/IR split)", -k), Passed: err == nil}
-			switch {
-			case err != nil:
-				ch.Detail = err.Error()
-			case pole.IsZero():
-				ch.Detail = "the poles cancel"
-			default:
-				var parts []string
-				for i, c := range cs {
-					parts = append(parts, fmt.Sprintf("dC_%s = %s", ops[i], c))
-				}
-				ch.Detail = fmt.Sprintf("EFT counterterms (coefficients of 1/eps^%d): %s", -k, strings.Join(parts, "; "))
-			}
-			res.Checks = append(res.Checks, ch)
-		} else {
-			res.Checks = append(res.Checks, Check{Name: fmt.Sprintf("1/eps^%d poles in canonical form", -k), Detail: err.Error()})
+		if err != nil {
+			res.Checks = append(res.Checks, Check{Name: name, Detail: err.Error()})
+			continue
 		}
+		res.Checks = append(res.Checks, poleCheck(name, res.Block.Ops, -k, pole, proj[k], errs[k], "the poles cancel"))
 	}
-	return c1
+}
+
+// poleCheck reports whether a pole of order n is spanned by the basis, listing the EFT
+// counterterms it implies.
+func poleCheck(name string, ops []string, n int, pole expr.Expr, cs []expr.Expr, err error, none string) Check {
+	ch := Check{Name: name, Passed: err == nil}
+	switch {
+	case err != nil:
+		ch.Detail = err.Error()
+	case pole.IsZero():
+		ch.Detail = none
+	default:
+		var parts []string
+		for i, c := range cs {
+			parts = append(parts, fmt.Sprintf("dC_%s = %s", ops[i], c))
+		}
+		power := "1/eps"
+		if n > 1 {
+			power = fmt.Sprintf("1/eps^%d", n)
+		}
+		ch.Detail = fmt.Sprintf("EFT counterterms (coefficients of %s): %s", power, strings.Join(parts, "; "))
+	}
+	return ch
 }
 
 // byLoopOrder splits e by loop order: the loop momenta of a term plus those of the self-energies

@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"loopmatch/expr"
+	"loopmatch/loops/vacuum"
 )
 
 // IsStructure reports whether an atom is part of the kinematic and spinor structure that
@@ -177,4 +178,51 @@ func Project(amp expr.Expr, basis []expr.Expr) ([]expr.Expr, error) {
 		out[col] = rhs[pivotRow[col]]
 	}
 	return out, nil
+}
+
+// EpsBasis expands the operators' canonical matrix elements in ε (d = 4 − 2ε) to O(ε^(depth−1)):
+// the projector basis of four-fermion tensor structures, for one, depends on d.
+func EpsBasis(basis []expr.Expr, depth int, positive func(string) bool) ([]expr.Series, error) {
+	out := make([]expr.Series, len(basis))
+	for i, b := range basis {
+		s, err := vacuum.ExpandEps(b, depth, positive)
+		if err != nil {
+			return nil, err
+		}
+		out[i] = s
+	}
+	return out, nil
+}
+
+// ProjectSeries projects the ε-expansion s of an amplitude onto operators whose matrix elements
+// basis(ε) may depend on d: the coefficients C(ε) solve s(ε) = Σ_i C_i(ε)·basis_i(ε) order by
+// order, from the lowest pole of s up to ε^0. The O(ε) parts of the basis times the poles thus
+// reach the finite coefficients, as MS-bar counterterms (pure poles times the d-dimensional
+// operators) require; for a basis free of d this is Project order by order. The result maps
+// each order to its coefficients; errs holds the orders that the basis does not span (they
+// contribute nothing to the orders above them).
+func ProjectSeries(s expr.Series, basis []expr.Series) (map[int][]expr.Expr, map[int]error) {
+	cs, errs := map[int][]expr.Expr{}, map[int]error{}
+	b0 := make([]expr.Expr, len(basis))
+	for i, b := range basis {
+		b0[i] = b.Coef(0)
+	}
+	lo := min(s.Lo, 0)
+	for k := lo; k <= 0; k++ {
+		rhs := s.Coef(k)
+		for j := lo; j < k; j++ {
+			for i, c := range cs[j] {
+				if bij := basis[i].Coef(k - j); !c.IsZero() && !bij.IsZero() {
+					rhs = rhs.Sub(c.MustMul(bij))
+				}
+			}
+		}
+		c, err := Project(rhs, b0)
+		if err != nil {
+			errs[k] = err
+			continue
+		}
+		cs[k] = c
+	}
+	return cs, errs
 }
