@@ -12,6 +12,7 @@ import (
 
 	"loopmatch/expr"
 	"loopmatch/expr/notation"
+	"loopmatch/loops"
 	"loopmatch/match"
 )
 
@@ -19,13 +20,16 @@ var matchCmd = &command{
 	name:    "match",
 	summary: "compute the Wilson coefficients of the match blocks of a .lm file",
 	usage:   "FILE [--set name=value,…] [--format text|latex|json] [--evolve-to MU]",
-	help: `match runs every match block of FILE: the full-theory amplitudes are expanded in the
-declared small quantities, their loop integrals reduced and evaluated exactly in the heavy
-masses, the Dirac algebra and the on-shell kinematics applied, the result expanded in eps,
-renormalised in MS-bar and projected onto the declared operators. It prints the Wilson
-coefficients C_i(mu) in the conventions it states, and the built-in checks (pole cancellation,
-scale dependence, expected values). With --set (which overrides the file's values and its
-scale) the coefficients are also evaluated numerically.
+	help: `match runs every match block of FILE. On the heavy-mass route (the default) the
+full-theory amplitudes, at one or two loops, are expanded in the declared small quantities,
+their loop integrals reduced and evaluated exactly in the heavy masses; on the general route
+(route general) full and effective-theory amplitudes are reduced by Passarino-Veltman at the
+block's kinematics and subtracted. Then the Dirac algebra and the on-shell kinematics are
+applied, the result expanded in eps, renormalised in MS-bar and projected onto the declared
+operators. It prints the Wilson coefficients C_i(mu) in the conventions it states, and the
+built-in checks (poles, scale dependence, Ward identities, gauge parameter, regulators,
+expected values; docs/GENERAL.md). With the file's values or --set (which overrides them and
+the scale) the coefficients are also evaluated numerically, to float64 accuracy.
 
 Exit codes: 0 all checks passed, 1 a check failed or the amplitude has structures the operators
 do not span (they are printed), 2 bad input.`,
@@ -79,6 +83,48 @@ func parseSet(s string) (map[string]expr.Expr, []string, error) {
 		vals[k] = e
 	}
 	return vals, order, nil
+}
+
+// coefficientValue evaluates a Wilson coefficient at the values: exactly to float64 accuracy
+// (closed forms cancel strongly near equal masses), or, when it holds scalar integrals (general
+// route), with their MS-bar finite parts at the block's scale in arbitrary precision.
+func coefficientValue(e expr.Expr, vals map[string]complex128, mb *notation.MatchBlock) (complex128, error) {
+	if !hasScalarIntegral(e) {
+		return e.EvalAccurate(vals)
+	}
+	pt := map[string]float64{}
+	for n, v := range vals {
+		if imag(v) != 0 {
+			return 0, fmt.Errorf("the scalar integrals of the general route need real values; %s = %v", n, v)
+		}
+		pt[n] = real(v)
+	}
+	if mb.ScaleSet {
+		mu, err := mb.Scale.EvalAccurate(vals)
+		if err != nil {
+			return 0, fmt.Errorf("scale: %v", err)
+		}
+		pt["mu"] = real(mu)
+	}
+	if _, ok := pt["mu"]; !ok {
+		return 0, fmt.Errorf("the scalar integrals need the scale: give a scale line or --set mu=…")
+	}
+	v, err := match.EvalFinite(e, pt)
+	if math.Abs(imag(v)) < 1e-30*math.Abs(real(v)) {
+		v = complex(real(v), 0) // rounding residue of the 256-bit evaluation
+	}
+	return v, err
+}
+
+func hasScalarIntegral(e expr.Expr) bool {
+	for _, t := range e.Terms() {
+		for _, a := range t.Atoms {
+			if loops.IsScalarAtom(a.A) {
+				return true
+			}
+		}
+	}
+	return false
 }
 
 // numericValues merges the file's values with --set (which wins) and evaluates them.
@@ -174,7 +220,7 @@ func runMatch(args []string, out, errOut io.Writer) int {
 			}
 			mo.at = valuesText(p, vals)
 			for _, c := range r.Coeffs {
-				v, err := c.Value.EvalAccurate(vals) // exact value to float64 accuracy: closed forms cancel near equal masses
+				v, err := coefficientValue(c.Value, vals, mb)
 				if err != nil {
 					mo.numErr = err
 					break

@@ -337,7 +337,7 @@ func expectedWords(exp string) string {
 	case "LegAttr":
 		return "a leg attribute (momentum, mass, polarization, colour)"
 	case "MatchLine":
-		return "a match line (normalization, expand, scheme, scale, expect, ratio, route)"
+		return "a match line (normalization, expand, scheme, scale, expect, ratio, route, eft, kinematics, offshell, regulator, invariant, eom)"
 	case "Assign":
 		return "NAME = value"
 	case "CallArgs", "ArgGroup":
