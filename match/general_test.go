@@ -41,7 +41,8 @@ func runBlocks(t *testing.T, path string) (*notation.Program, []*Result) {
 // (M. Beneke, V.A. Smirnov, Nucl. Phys. B522 (1998) 321, hep-ph/9711391; cited from memory):
 // full = hard + soft, the soft region is the effective theory with the same regulator, the hard
 // region is what the heavy-mass route computes — two methods that share no code beyond the
-// scalar tadpole.
+// scalar tadpole. Both must also meet the file's expect line C_QS = yS² (derived by hand there:
+// the boxes are proportional to σ⊗σ in d dimensions).
 func TestGeneralRouteAgreesWithHeavy(t *testing.T) {
 	t.Run("light-mass regulator", func(t *testing.T) {
 		_, rs := runBlocks(t, "../testdata/general_light.lm")
