@@ -252,13 +252,15 @@ func (g *generalReducer) integral(numerator expr.Expr, k string, lines []genLine
 	}
 	out := expr.Zero()
 	for _, nt := range shifted.Terms() {
-		base, slots, err := genSlots(nt, k)
+		// every occurrence of k becomes an index (k² → g(i, j) with two slots)
+		sl, err := openSlots(nt, func(p string) bool { return p == k }, true)
 		if err != nil {
 			return expr.Expr{}, err
 		}
-		if base == nil {
+		if sl.zero {
 			continue // the structure vanished (Levi-Civita symbol with two equal slots)
 		}
+		base, slots := sl.term, sl.idx
 		if len(slots) > pv.MaxRank {
 			return expr.Expr{}, fmt.Errorf("general route: tensor rank %d exceeds %d", len(slots), pv.MaxRank)
 		}
@@ -270,7 +272,7 @@ func (g *generalReducer) integral(numerator expr.Expr, k string, lines []genLine
 			if c.IsZero() {
 				continue
 			}
-			x, err := expr.FromTerm(*base).Mul(s.e)
+			x, err := expr.FromTerm(base).Mul(s.e)
 			if err != nil {
 				return expr.Expr{}, err
 			}
@@ -406,135 +408,6 @@ func (g *generalReducer) structures(slots []string, moms []expr.Mom) []genStruct
 	g.structs[key.String()] = out
 	g.mu.Unlock()
 	return out
-}
-
-// genSlots replaces every occurrence of the loop momentum k in the numerator term t by an
-// index: k·X → X^i, k[mu] → slot mu, slash(k) → gamma(i), k in a Levi-Civita slot → i,
-// k² → g(i, j) with two slots. It returns the term without k (and without its loop) and the
-// slot names; base is nil when the term vanishes.
-func genSlots(t expr.Term, k string) (*expr.Term, []string, error) {
-	need := 0
-	for _, a := range t.Atoms {
-		switch x := a.A.(type) {
-		case expr.Dot:
-			if a.Pow < 0 && (x.A == k || x.B == k) {
-				return nil, nil, fmt.Errorf("%s in a denominator", x.Key())
-			}
-			switch {
-			case x.A == k && x.B == k:
-				need += 2 * a.Pow
-			case x.A == k || x.B == k:
-				need += a.Pow
-			}
-		case expr.Levi:
-			for _, s := range x.S {
-				if !s.Index && s.Name == k {
-					need++
-				}
-			}
-		case expr.Chain, expr.Trace:
-			elems, _, _ := stringOf(x)
-			for _, el := range elems {
-				if el.Op == expr.NCSlash && el.Args[0] == k {
-					if a.Pow != 1 {
-						return nil, nil, fmt.Errorf("a power of %s depends on the loop momentum; write the factors separately", x.Key())
-					}
-					need++
-				}
-			}
-		}
-	}
-	for _, el := range t.NC {
-		if el.Op == expr.NCSlash && el.Args[0] == k {
-			need++
-		}
-	}
-	fresh := freshIndices(t, need)
-	next := 0
-	take := func() string { s := fresh[next]; next++; return s }
-	var slots []string
-	nt := expr.Term{Coef: t.Coef}
-	for _, a := range t.Atoms {
-		switch x := a.A.(type) {
-		case expr.Dot:
-			if x.A == k && x.B == k {
-				for range a.Pow {
-					i, j := take(), take()
-					slots = append(slots, i, j)
-					nt.Atoms = append(nt.Atoms, expr.AtomPow{A: expr.NewMetric(i, j), Pow: 1})
-				}
-				continue
-			}
-			if x.A == k || x.B == k {
-				other := x.B
-				if x.B == k {
-					other = x.A
-				}
-				for range a.Pow {
-					i := take()
-					slots = append(slots, i)
-					nt.Atoms = append(nt.Atoms, expr.AtomPow{A: expr.Vec{P: other, Mu: i}, Pow: 1})
-				}
-				continue
-			}
-		case expr.Vec:
-			if x.P == k {
-				for range a.Pow {
-					slots = append(slots, x.Mu)
-				}
-				continue
-			}
-		case expr.Levi:
-			s := x.S
-			changed := false
-			for i := range s {
-				if !s[i].Index && s[i].Name == k {
-					j := take()
-					slots = append(slots, j)
-					s[i] = expr.Slot{Name: j, Index: true}
-					changed = true
-				}
-			}
-			if changed {
-				l, sign := expr.NewLevi(s)
-				if sign == 0 {
-					return nil, nil, nil
-				}
-				nt.Coef = nt.Coef.Scale(big.NewRat(int64(sign), 1))
-				nt.Atoms = append(nt.Atoms, expr.AtomPow{A: l, Pow: a.Pow})
-				continue
-			}
-		case expr.Chain, expr.Trace:
-			orig, rebuild, _ := stringOf(x)
-			elems := slices.Clone(orig)
-			changed := false
-			for i, el := range elems {
-				if el.Op == expr.NCSlash && el.Args[0] == k {
-					j := take()
-					slots = append(slots, j)
-					elems[i] = expr.NC{Op: expr.NCGamma, Args: []string{j}}
-					changed = true
-				}
-			}
-			if changed {
-				nt.Atoms = append(nt.Atoms, expr.AtomPow{A: rebuild(elems), Pow: a.Pow})
-				continue
-			}
-		}
-		nt.Atoms = append(nt.Atoms, a)
-	}
-	if len(t.NC) > 0 {
-		elems := slices.Clone(t.NC)
-		for i, el := range elems {
-			if el.Op == expr.NCSlash && el.Args[0] == k {
-				j := take()
-				slots = append(slots, j)
-				elems[i] = expr.NC{Op: expr.NCGamma, Args: []string{j}}
-			}
-		}
-		nt.NC = elems
-	}
-	return &nt, slots, nil
 }
 
 // SubstMomentum replaces the momentum name p by the combination by everywhere in e (scalar

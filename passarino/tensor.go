@@ -124,8 +124,8 @@ type scalarFunc func(a int, lines []vacuum.Line) (expr.Expr, vacuum.Info, error)
 // with scalar (without the factor i/(16π²)).
 func reduceVacuumTerm(t expr.Term, k string, scalarInt scalarFunc) (expr.Expr, vacuum.Info, error) {
 	var info vacuum.Info
-	// Count the slots of k, and build the term with k replaced by fresh indices.
-	rank := 0
+	// The propagators and the powers of k² go to the scalar integral; the other occurrences of k
+	// become slots.
 	ksq := 0
 	var lines []vacuum.Line
 	for _, a := range t.Atoms {
@@ -139,133 +139,33 @@ func reduceVacuumTerm(t expr.Term, k string, scalarInt scalarFunc) (expr.Expr, v
 			}
 			lines = append(lines, vacuum.Line{M2: x.M2, Pow: -a.Pow})
 		case expr.Dot:
-			switch {
-			case x.A == k && x.B == k:
+			if x.A == k && x.B == k {
 				ksq += a.Pow
-			case x.A == k || x.B == k:
-				if a.Pow < 0 {
-					return expr.Expr{}, info, fmt.Errorf("%s in a denominator", x.Key())
-				}
-				rank += a.Pow
-			}
-		case expr.Vec:
-			if x.P == k {
-				rank += a.Pow
-			}
-		case expr.Levi:
-			for _, s := range x.S {
-				if !s.Index && s.Name == k {
-					rank++
-				}
-			}
-		case expr.Chain, expr.Trace:
-			elems, _, _ := stringOf(x)
-			for _, el := range elems {
-				if el.Op == expr.NCSlash && el.Args[0] == k {
-					rank += max(a.Pow, 1)
-				}
 			}
 		}
 	}
-	for _, el := range t.NC {
-		if el.Op == expr.NCSlash && el.Args[0] == k {
-			rank++
-		}
+	sl, err := openSlots(t, func(p string) bool { return p == k }, false)
+	if err != nil {
+		return expr.Expr{}, info, err
 	}
-	if rank%2 == 1 {
+	rank := len(sl.idx)
+	if sl.zero || rank%2 == 1 {
 		return expr.Zero(), info, nil
 	}
 	if rank > maxRank {
 		return expr.Expr{}, info, fmt.Errorf("tensor rank %d exceeds the limit %d", rank, maxRank)
 	}
-	idx := freshIndices(t, rank)
-	next := 0
-	take := func() string { s := idx[next]; next++; return s }
-	// slotIdx[s] is the index carried by slot s; the replaced term has k^{slotIdx} removed.
-	var slotIdx []string
-	nt := expr.Term{Coef: t.Coef, NC: t.NC}
-	for _, a := range t.Atoms {
+	slotIdx := sl.idx
+	nt := sl.term
+	nt.Atoms = slices.DeleteFunc(slices.Clone(nt.Atoms), func(a expr.AtomPow) bool {
 		switch x := a.A.(type) {
 		case expr.Prop:
-			if x.K.Coef(k).Sign() != 0 {
-				continue
-			}
+			return x.K.Coef(k).Sign() != 0
 		case expr.Dot:
-			if x.A == k && x.B == k {
-				continue
-			}
-			if x.A == k || x.B == k {
-				other := x.B
-				if x.B == k {
-					other = x.A
-				}
-				for range a.Pow {
-					i := take()
-					slotIdx = append(slotIdx, i)
-					nt.Atoms = append(nt.Atoms, expr.AtomPow{A: expr.Vec{P: other, Mu: i}, Pow: 1})
-				}
-				continue
-			}
-		case expr.Vec:
-			if x.P == k {
-				for range a.Pow {
-					slotIdx = append(slotIdx, x.Mu)
-				}
-				continue
-			}
-		case expr.Levi:
-			s := x.S
-			changed := false
-			for i := range s {
-				if !s[i].Index && s[i].Name == k {
-					j := take()
-					slotIdx = append(slotIdx, j)
-					s[i] = expr.Slot{Name: j, Index: true}
-					changed = true
-				}
-			}
-			if changed {
-				l, sign := expr.NewLevi(s)
-				if sign == 0 {
-					return expr.Zero(), info, nil
-				}
-				nt.Coef = nt.Coef.Scale(big.NewRat(int64(sign), 1))
-				nt.Atoms = append(nt.Atoms, expr.AtomPow{A: l, Pow: a.Pow})
-				continue
-			}
-		case expr.Chain, expr.Trace:
-			orig, rebuild, _ := stringOf(x)
-			if a.Pow != 1 && slices.ContainsFunc(orig, func(el expr.NC) bool { return el.Op == expr.NCSlash && el.Args[0] == k }) {
-				return expr.Expr{}, info, fmt.Errorf("a power of %s depends on the loop momentum; write the factors separately", x.Key())
-			}
-			elems := append([]expr.NC{}, orig...)
-			changed := false
-			for i, el := range elems {
-				if el.Op == expr.NCSlash && el.Args[0] == k {
-					j := take()
-					slotIdx = append(slotIdx, j)
-					elems[i] = expr.NC{Op: expr.NCGamma, Args: []string{j}}
-					changed = true
-				}
-			}
-			if changed {
-				nt.Atoms = append(nt.Atoms, expr.AtomPow{A: rebuild(elems), Pow: a.Pow})
-				continue
-			}
+			return x.A == k && x.B == k
 		}
-		nt.Atoms = append(nt.Atoms, a)
-	}
-	if len(nt.NC) > 0 {
-		elems := append([]expr.NC{}, nt.NC...)
-		for i, el := range elems {
-			if el.Op == expr.NCSlash && el.Args[0] == k {
-				j := take()
-				slotIdx = append(slotIdx, j)
-				elems[i] = expr.NC{Op: expr.NCGamma, Args: []string{j}}
-			}
-		}
-		nt.NC = elems
-	}
+		return false
+	})
 	base := expr.FromTerm(nt)
 	// Symmetric tensor: Σ over pairings of metrics.
 	sym := expr.Zero()

@@ -118,116 +118,28 @@ func pairingInv(n int) ([][]expr.RatFunc, error) {
 func reduceMultiLoopTerm(t expr.Term, loops []string) (expr.Expr, vacuum.Info, error) {
 	var info vacuum.Info
 	isLoop := func(p string) bool { return slices.Contains(loops, p) }
-	// Count slots (occurrences of a loop momentum contracted with something else).
-	rank := 0
 	for _, a := range t.Atoms {
-		switch x := a.A.(type) {
-		case expr.Prop:
+		if x, ok := a.A.(expr.Prop); ok {
 			for _, m := range x.K {
 				if !isLoop(m.Name) {
 					return expr.Expr{}, info, fmt.Errorf("propagator %s still depends on external momenta; expand it first", x.Key())
 				}
 			}
-		case expr.Dot:
-			if isLoop(x.A) != isLoop(x.B) {
-				if a.Pow < 0 {
-					return expr.Expr{}, info, fmt.Errorf("%s in a denominator", x.Key())
-				}
-				rank += a.Pow
-			}
-		case expr.Vec:
-			if isLoop(x.P) {
-				rank += a.Pow
-			}
-		case expr.Levi:
-			for _, s := range x.S {
-				if !s.Index && isLoop(s.Name) {
-					rank++
-				}
-			}
-		case expr.Chain, expr.Trace:
-			elems, _, _ := stringOf(x)
-			for _, el := range elems {
-				if el.Op == expr.NCSlash && isLoop(el.Args[0]) {
-					rank += max(a.Pow, 1)
-				}
-			}
 		}
 	}
-	if rank%2 == 1 {
+	// Slots: occurrences of a loop momentum contracted with something else.
+	sl, err := openSlots(t, isLoop, false)
+	if err != nil {
+		return expr.Expr{}, info, err
+	}
+	rank := len(sl.idx)
+	if sl.zero || rank%2 == 1 {
 		return expr.Zero(), info, nil
 	}
 	if rank > maxTwoLoopRank {
 		return expr.Expr{}, info, fmt.Errorf("tensor rank %d of a multi-loop vacuum integral exceeds the limit %d", rank, maxTwoLoopRank)
 	}
-	idx := freshIndices(t, rank)
-	var slotIdx, slotMom []string
-	take := func(p string) string {
-		i := idx[len(slotIdx)]
-		slotIdx = append(slotIdx, i)
-		slotMom = append(slotMom, p)
-		return i
-	}
-	nt := expr.Term{Coef: t.Coef, NC: t.NC}
-	for _, a := range t.Atoms {
-		switch x := a.A.(type) {
-		case expr.Dot:
-			if isLoop(x.A) != isLoop(x.B) {
-				lp, other := x.A, x.B
-				if isLoop(x.B) {
-					lp, other = x.B, x.A
-				}
-				for range a.Pow {
-					nt.Atoms = append(nt.Atoms, expr.AtomPow{A: expr.Vec{P: other, Mu: take(lp)}, Pow: 1})
-				}
-				continue
-			}
-		case expr.Vec:
-			if isLoop(x.P) {
-				for range a.Pow {
-					slotIdx = append(slotIdx, x.Mu)
-					slotMom = append(slotMom, x.P)
-				}
-				continue
-			}
-		case expr.Levi:
-			s := x.S
-			changed := false
-			for i := range s {
-				if !s[i].Index && isLoop(s[i].Name) {
-					s[i] = expr.Slot{Name: take(s[i].Name), Index: true}
-					changed = true
-				}
-			}
-			if changed {
-				l, sign := expr.NewLevi(s)
-				if sign == 0 {
-					return expr.Zero(), info, nil
-				}
-				nt.Coef = nt.Coef.Scale(big.NewRat(int64(sign), 1))
-				nt.Atoms = append(nt.Atoms, expr.AtomPow{A: l, Pow: a.Pow})
-				continue
-			}
-		case expr.Chain, expr.Trace:
-			orig, rebuild, _ := stringOf(x)
-			elems := append([]expr.NC{}, orig...)
-			changed := false
-			for i, el := range elems {
-				if el.Op == expr.NCSlash && isLoop(el.Args[0]) {
-					elems[i] = expr.NC{Op: expr.NCGamma, Args: []string{take(el.Args[0])}}
-					changed = true
-				}
-			}
-			if changed {
-				if a.Pow != 1 {
-					return expr.Expr{}, info, fmt.Errorf("a power of %s depends on the loop momenta; write the factors separately", x.Key())
-				}
-				nt.Atoms = append(nt.Atoms, expr.AtomPow{A: rebuild(elems), Pow: 1})
-				continue
-			}
-		}
-		nt.Atoms = append(nt.Atoms, a)
-	}
+	slotIdx, slotMom, nt := sl.idx, sl.mom, sl.term
 	base := expr.FromTerm(nt)
 	if rank > 0 {
 		n := rank / 2
