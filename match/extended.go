@@ -258,7 +258,7 @@ func runExtended(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Re
 		}
 		res.Expectations = append(res.Expectations, ch)
 	}
-	extra, err := issue7Checks(p, mb, opt, res)
+	extra, err := symmetryChecks(p, mb, opt, res)
 	if err != nil {
 		return nil, err
 	}

@@ -10,10 +10,10 @@ import (
 	"loopmatch/expr/notation"
 )
 
-// issue7Checks returns the checks that both routes add to a result: the Ward identity for
+// symmetryChecks returns the checks that both routes add to a result: the Ward identity for
 // external photons and gluons, and the cancellation of the gauge parameters in the declared
 // gauge-independent combinations.
-func issue7Checks(p *notation.Program, mb *notation.MatchBlock, opt Options, res *Result) ([]Check, error) {
+func symmetryChecks(p *notation.Program, mb *notation.MatchBlock, opt Options, res *Result) ([]Check, error) {
 	ward, err := wardChecks(p, mb, opt)
 	if err != nil {
 		return nil, err

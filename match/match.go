@@ -168,7 +168,7 @@ func Reduce(p *notation.Program, e expr.Expr, small passarino.Small, opt Options
 
 // Run executes one match block of p (heavy-mass route).
 func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, error) {
-	// Issue 7 hook: the general route and off-shell matching run in match/extended.go.
+	// The general route and off-shell matching run in match/extended.go.
 	if extended(mb) {
 		return runExtended(p, mb, opt)
 	}
@@ -277,7 +277,7 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 	serIR := ser.Sub(uvSer)
 	proj, perrs := ProjectSeries(serIR, bser)
 	if err := perrs[0]; err != nil {
-		return nil, withWard(p, mb, opt, err) // issue 7 hook: report a failed Ward identity with the projection error
+		return nil, withWard(p, mb, opt, err) // a failed Ward identity is reported with the projection error
 	}
 	cs0 := proj[0]
 	cs := cs0
@@ -343,8 +343,8 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 			Detail: describe("difference", diff),
 		})
 	}
-	// Issue 7 hook: Ward identity and gauge-parameter checks (match/ward.go, match/gauge.go).
-	extra, err := issue7Checks(p, mb, opt, res)
+	// Ward identity and gauge-parameter checks (match/ward.go, match/gauge.go).
+	extra, err := symmetryChecks(p, mb, opt, res)
 	if err != nil {
 		return nil, err
 	}

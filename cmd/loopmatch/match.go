@@ -38,7 +38,7 @@ do not span (they are printed), 2 bad input.`,
 type matchOpts struct {
 	set      string
 	format   *format
-	evolveTo string // --evolve-to (issue 8, evolve.go)
+	evolveTo string // --evolve-to (evolve.go)
 }
 
 func matchFlags() (*flag.FlagSet, *matchOpts) {
@@ -233,7 +233,7 @@ func runMatch(args []string, out, errOut io.Writer) int {
 		}
 		results = append(results, mo)
 	}
-	if o.evolveTo != "" { // --evolve-to (issue 8): evolve.go runs and prints match and evolution
+	if o.evolveTo != "" { // --evolve-to: evolve.go runs and prints match and evolution
 		return finishEvolveTo(out, errOut, p, results, set, o.evolveTo, o.format.value, code)
 	}
 	switch o.format.value {
