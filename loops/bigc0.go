@@ -78,6 +78,9 @@ func (n bnum) c0Finite(t *btri) (bc, error) {
 	if lam.Sign() == 0 {
 		return n.c0DegenerateGram(t)
 	}
+	if v, ok, err := n.c0OnLandau(t, lam); ok {
+		return v, err
+	}
 	return n.c0Projective(t, lam)
 }
 
@@ -99,29 +102,8 @@ func (n bnum) lambda3(a, b, c *big.Float) *big.Float {
 func (n bnum) c0Projective(t *btri, lam *big.Float) (bc, error) {
 	w := n.w
 	s01, s12, s02 := t.s[0][1], t.s[1][2], t.s[0][2]
-	mul := func(x, y *big.Float) *big.Float { return new(big.Float).SetPrec(w).Mul(x, y) }
 	half := n.f(0.5)
-	// F* = m_r² + Φ* at the reference line r of smallest mass (see tri.fStar)
-	ref := 0
-	for i := 1; i < 3; i++ {
-		if t.m2[i].Cmp(t.m2[ref]) < 0 {
-			ref = i
-		}
-	}
-	ra, rb := (ref+1)%3, (ref+2)%3
-	gaa, gbb := t.s[ref][ra], t.s[ref][rb]
-	gab := new(big.Float).SetPrec(w).Add(t.s[ref][ra], t.s[ref][rb])
-	gab.Sub(gab, t.s[ra][rb])
-	gab.Mul(gab, half)
-	detG := new(big.Float).SetPrec(w).Quo(lam, n.f(-4))
-	fa := new(big.Float).SetPrec(w).Sub(n.ty(t, ref, ra), n.ty(t, ref, ref))
-	fb := new(big.Float).SetPrec(w).Sub(n.ty(t, ref, rb), n.ty(t, ref, ref))
-	q := mul(mul(fa, fa), gbb)
-	q.Sub(q, mul(mul(mul(fa, fb), gab), n.f(2)))
-	q.Add(q, mul(mul(fb, fb), gaa))
-	phiStar := new(big.Float).SetPrec(w).Quo(q, detG)
-	phiStar.Neg(phiStar)
-	fStar := new(big.Float).SetPrec(w).Add(t.m2[ref], phiStar)
+	fStar, _ := n.fStar(t, lam)
 	lnFStar := n.lnMinusI0(fStar)
 	// P = (a, 1, −a−1) or (1, b, −1−b)
 	qb := new(big.Float).SetPrec(w).Add(s02, s12)
@@ -182,6 +164,64 @@ func (n bnum) c0Projective(t *btri, lam *big.Float) (bc, error) {
 		sum = sum.Add(pre.Mul(e).Quo(beta))
 	}
 	return sum, nil
+}
+
+// fStar returns F* = m_r² + Φ* at the reference line r of smallest mass (see tri.fStar) and the
+// size of its parts, |m_r²| + |Φ*|.
+func (n bnum) fStar(t *btri, lam *big.Float) (fStar, parts *big.Float) {
+	w := n.w
+	mul := func(x, y *big.Float) *big.Float { return new(big.Float).SetPrec(w).Mul(x, y) }
+	ref := 0
+	for i := 1; i < 3; i++ {
+		if t.m2[i].Cmp(t.m2[ref]) < 0 {
+			ref = i
+		}
+	}
+	ra, rb := (ref+1)%3, (ref+2)%3
+	gaa, gbb := t.s[ref][ra], t.s[ref][rb]
+	gab := new(big.Float).SetPrec(w).Add(t.s[ref][ra], t.s[ref][rb])
+	gab.Sub(gab, t.s[ra][rb])
+	gab.Mul(gab, n.f(0.5))
+	detG := new(big.Float).SetPrec(w).Quo(lam, n.f(-4))
+	fa := new(big.Float).SetPrec(w).Sub(n.ty(t, ref, ra), n.ty(t, ref, ref))
+	fb := new(big.Float).SetPrec(w).Sub(n.ty(t, ref, rb), n.ty(t, ref, ref))
+	q := mul(mul(fa, fa), gbb)
+	q.Sub(q, mul(mul(mul(fa, fb), gab), n.f(2)))
+	q.Add(q, mul(mul(fb, fb), gaa))
+	phiStar := new(big.Float).SetPrec(w).Quo(q, detG)
+	phiStar.Neg(phiStar)
+	fStar = new(big.Float).SetPrec(w).Add(t.m2[ref], phiStar)
+	parts = new(big.Float).SetPrec(w).Abs(t.m2[ref])
+	parts.Add(parts, new(big.Float).Abs(phiStar))
+	return fStar, parts
+}
+
+// c0OnLandau is the arbitrary-precision counterpart of c0NearLandau for F* = 0 to the working
+// precision: the mean of C0 at masses m_i²(1 ± 2^{−w/3}), exact to O(2^{−2w/3}). ok is false
+// away from the surface.
+func (n bnum) c0OnLandau(t *btri, lam *big.Float) (bc, bool, error) {
+	fStar, parts := n.fStar(t, lam)
+	lim := new(big.Float).SetMantExp(parts, -int(n.w/2))
+	if new(big.Float).Abs(fStar).Cmp(lim) > 0 {
+		return bc{}, false, nil
+	}
+	delta := new(big.Float).SetMantExp(big.NewFloat(1), -int(n.w/3))
+	sum := n.zero()
+	for _, sign := range []int{1, -1} {
+		f := new(big.Float).SetPrec(n.w).SetInt64(int64(sign))
+		f.Mul(f, delta)
+		f.Add(f, n.f(1))
+		u := *t
+		for i := range u.m2 {
+			u.m2[i] = new(big.Float).SetPrec(n.w).Mul(t.m2[i], f)
+		}
+		v, err := n.c0Projective(&u, lam)
+		if err != nil {
+			return bc{}, true, err
+		}
+		sum = sum.Add(v.Scale(n.f(0.5)))
+	}
+	return sum, true, nil
 }
 
 func (n bnum) quadRoot(A, B, C, lam *big.Float) bc {

@@ -136,11 +136,38 @@ func c0Finite(t *tri) (complex128, error) {
 	if k := t.variation(); k <= quadKappa {
 		return complex(t.quadrature(k), 0), nil
 	}
+	if v, ok, err := c0NearLandau(t); ok {
+		return v, err
+	}
 	v, cond, err := c0Projective(t)
 	if err == nil && cond <= c0Cond {
 		return v, nil
 	}
 	return c0Fallback(t, err)
+}
+
+// c0LandauTol is the size of F* relative to the triangle's scale below which c0NearLandau hands
+// the triangle to the arbitrary-precision path.
+const c0LandauTol = 1e-4
+
+// c0NearLandau handles triangles on or next to the surface F* = 0, where the stationary point of
+// the Feynman-parameter quadric has F = 0 (the leading Landau condition, here with the point
+// outside the integration simplex, so C0 is regular): the projective formula below has terms
+// ln F* there that cancel only analytically; in float64 it loses about half the digits at
+// |F*| ~ 1e-7 of its parts and fails at F* = 0. The arbitrary-precision path keeps them and, at
+// F* = 0 itself, averages over masses m_i²(1 ± δ) (bnum.c0OnLandau). ok is false away from the
+// surface.
+func c0NearLandau(t *tri) (complex128, bool, error) {
+	lam := lambda3(t.s[0][1], t.s[1][2], t.s[0][2])
+	sc := scaleOf(t.s[0][1], t.s[1][2], t.s[0][2])
+	if t.fromY || math.Abs(lam) <= 1e-13*sc*sc {
+		return 0, false, nil
+	}
+	if fStar, _, _ := t.fStar(lam); math.Abs(fStar) > c0LandauTol*t.scale() {
+		return 0, false, nil
+	}
+	v, err := c0BigFallback(t)
+	return v, true, err
 }
 
 // c0Projective evaluates C0 by the projective form of 't Hooft and Veltman's method
