@@ -264,7 +264,7 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 	// EFT counterterms.
 	uvTotal := expr.Zero()
 	if maxL < 2 {
-		if uvTotal, err = oneLoopPoles(p, pl, res, full, ser.Coef(-1), small, b0); err != nil {
+		if uvTotal, err = poles1Loop(p, pl, res, full, ser.Coef(-1), small, b0); err != nil {
 			return nil, err
 		}
 	} else {
@@ -353,11 +353,11 @@ func Run(p *notation.Program, mb *notation.MatchBlock, opt Options) (*Result, er
 	return res, nil
 }
 
-// oneLoopPoles checks that the ultraviolet poles of the full amplitude (large-momentum expansion
+// poles1Loop checks that the ultraviolet poles of the full amplitude (large-momentum expansion
 // of the loop terms) are cancelled by the counterterms written as tree terms, and that the
 // remaining infrared poles are EFT counterterms in the basis (b0: the operators at d = 4); it
 // appends both checks to res and returns what is left of the ultraviolet pole.
-func oneLoopPoles(p *notation.Program, pl *Canon, res *Result, full, pole expr.Expr, small passarino.Small, b0 []expr.Expr) (expr.Expr, error) {
+func poles1Loop(p *notation.Program, pl *Canon, res *Result, full, pole expr.Expr, small passarino.Small, b0 []expr.Expr) (expr.Expr, error) {
 	uv, err := passarino.UVPole(full, massSymbols(p), small.OnShell)
 	if err != nil {
 		return expr.Expr{}, err

@@ -141,12 +141,12 @@ func TestDipoleC7C8(t *testing.T) {
 	}
 }
 
-// TestRhoOneLoop computes Δρ = Π_WW(0)/M_W² − Π_ZZ(0)/M_Z² from the t–b loops of the W and Z
+// TestRho1Loop computes Δρ = Π_WW(0)/M_W² − Π_ZZ(0)/M_Z² from the t–b loops of the W and Z
 // self-energies at zero momentum and compares with M. Veltman, Nucl. Phys. B123 (1977) 89:
 // Δρ = N_c g²/(64π² M_W²) F(m_t², m_b²), F(a, b) = a + b − 2ab/(a − b) ln(a/b) (the file strips
 // g²/M_W²). The weak angle drops out and the poles cancel.
-func TestRhoOneLoop(t *testing.T) {
-	p, err := notation.ParseFile("../testdata/sm/rho_oneloop.lm")
+func TestRho1Loop(t *testing.T) {
+	p, err := notation.ParseFile("../testdata/sm/rho_1loop.lm")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -227,7 +227,7 @@ func (g *generalReducer) integral(numerator expr.Expr, k string, lines []genLine
 		for _, nt := range shifted.Terms() {
 			full := nt
 			full.Atoms = append(slices.Clone(nt.Atoms), expr.AtomPow{A: expr.NewProp(expr.MomOf(k), m2[0]), Pow: -lines[0].Pow})
-			r, info, err := reduceVacuumTerm(full, k, vacuum.OneLoop)
+			r, info, err := reduceVacuumTerm(full, k, vacuum.Loop1)
 			if err != nil {
 				return expr.Expr{}, err
 			}

@@ -111,7 +111,7 @@ amplitude b = loop k { 1/((k^2 - m^2)*(k^2 - M^2)) }
 	M2 := expr.RFVar("M").Mul(expr.RFVar("M"))
 	soft := expr.Zero()
 	for j := 0; j < order/2; j++ { // m^{2j+2} ≤ m^order, the order of the hard region
-		v, _, err := vacuum.OneLoop(j, []vacuum.Line{{M2: m2, Pow: 1}})
+		v, _, err := vacuum.Loop1(j, []vacuum.Line{{M2: m2, Pow: 1}})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -150,7 +150,7 @@ amplitude tg = loop k { k[al]*k[be] / (k^2 - M^2)^3 }
 `
 	for name, want := range map[string]string{
 		"t1": "0",
-		// ∫ k²/(k²−M²)³ = (d/4)·Tad/M²·… : from OneLoop; here only the tensor structure is checked.
+		// ∫ k²/(k²−M²)³ = (d/4)·Tad/M²·… : from Loop1; here only the tensor structure is checked.
 		"t2": "p.q",
 		"tg": "g(al, be)",
 	} {

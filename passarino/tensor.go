@@ -107,7 +107,7 @@ func ReduceVacuum(e expr.Expr) (expr.Expr, vacuum.Info, error) {
 			continue
 		}
 		k := t.Loops[0]
-		r, ti, err := reduceVacuumTerm(t, k, vacuum.OneLoop)
+		r, ti, err := reduceVacuumTerm(t, k, vacuum.Loop1)
 		if err != nil {
 			return expr.Expr{}, info, err
 		}

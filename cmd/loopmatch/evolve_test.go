@@ -69,7 +69,7 @@ func coeff(t *testing.T, j jsonEvolution, op string) float64 {
 func checkC7(t *testing.T, j jsonEvolution, c7 float64) {
 	t.Helper()
 	for _, s := range []struct{ mu, got float64 }{{j.From, j.AlphaSFrom}, {j.To, j.AlphaSTo}} {
-		want, err := running.AlphaSOneLoop(5, 0.118, 91.1876, s.mu)
+		want, err := running.AlphaS1Loop(5, 0.118, 91.1876, s.mu)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -189,7 +189,7 @@ func TestEvolveCurrentCurrent(t *testing.T) {
 			cp, cm = math.Pow(eta, 6.0/23), math.Pow(eta, -12.0/23)
 		} else {
 			// 1-loop αs is continuous at m_b = 4.18 GeV.
-			ab, err := running.AlphaSOneLoop(5, 0.118, 91.1876, 4.18)
+			ab, err := running.AlphaS1Loop(5, 0.118, 91.1876, 4.18)
 			if err != nil {
 				t.Fatal(err)
 			}

@@ -198,7 +198,7 @@ func factorised(c [3]int, m2 [3]expr.RatFunc) (expr.Expr, Info, error) {
 				if coef.IsZero() {
 					continue
 				}
-				ik, iinfo, err := OneLoop(p+j, []Line{{M2: m2[0], Pow: c[0]}})
+				ik, iinfo, err := Loop1(p+j, []Line{{M2: m2[0], Pow: c[0]}})
 				if err != nil {
 					return expr.Expr{}, info, err
 				}
@@ -206,7 +206,7 @@ func factorised(c [3]int, m2 [3]expr.RatFunc) (expr.Expr, Info, error) {
 				if ik.IsZero() {
 					continue
 				}
-				il, iinfo, err := OneLoop(q+j, []Line{{M2: m2[1], Pow: c[1]}})
+				il, iinfo, err := Loop1(q+j, []Line{{M2: m2[1], Pow: c[1]}})
 				if err != nil {
 					return expr.Expr{}, info, err
 				}

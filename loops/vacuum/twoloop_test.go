@@ -274,8 +274,8 @@ func TestTwoLoopNumerators(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	ik, _, _ := OneLoop(1, []Line{{x[0], 2}})
-	il, _, _ := OneLoop(1, []Line{{x[1], 2}})
+	ik, _, _ := Loop1(1, []Line{{x[0], 2}})
+	il, _, _ := Loop1(1, []Line{{x[1], 2}})
 	want := ik.MustMul(il).Scale(expr.RFInt(1).Mul(mustInv(t, expr.RFVar(expr.DimSymbol))))
 	if !got.Equal(want) {
 		t.Errorf("(k·l)² factorised: %s, want %s", got, want)

@@ -49,9 +49,9 @@ func (i *Info) Merge(other Info) { i.Scaleless = append(i.Scaleless, other.Scale
 // xVar is the internal variable for k² in the partial fractions.
 const xVar = "k2·"
 
-// OneLoop returns ∫ (k²)^a / Π_i (k² − M2_i)^{Pow_i} (normalised as in the package comment),
+// Loop1 returns ∫ (k²)^a / Π_i (k² − M2_i)^{Pow_i} (normalised as in the package comment),
 // exact in d, as a combination of Tad masters with coefficients rational in d and the masses.
-func OneLoop(a int, lines []Line) (expr.Expr, Info, error) {
+func Loop1(a int, lines []Line) (expr.Expr, Info, error) {
 	var info Info
 	if a < 0 {
 		lines = append(lines, Line{M2: expr.RFInt(0), Pow: -a})

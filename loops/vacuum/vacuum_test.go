@@ -50,7 +50,7 @@ func TestTadSeries(t *testing.T) {
 	}
 }
 
-func TestOneLoopExact(t *testing.T) {
+func TestLoop1Exact(t *testing.T) {
 	cases := []struct {
 		a     int
 		lines []Line
@@ -67,16 +67,16 @@ func TestOneLoopExact(t *testing.T) {
 		{0, []Line{{sq("A"), 1}, {sq("B"), 1}}, "1/(A^2 - B^2)*Tad(A^2) - 1/(A^2 - B^2)*Tad(B^2)"},
 	}
 	for _, c := range cases {
-		got, _, err := OneLoop(c.a, c.lines)
+		got, _, err := Loop1(c.a, c.lines)
 		if err != nil {
 			t.Fatal(err)
 		}
 		if got.String() != c.want {
-			t.Errorf("OneLoop(%d, %v) = %s, want %s", c.a, c.lines, got, c.want)
+			t.Errorf("Loop1(%d, %v) = %s, want %s", c.a, c.lines, got, c.want)
 		}
 	}
 	// Scaleless integrals are zero and reported.
-	got, info, err := OneLoop(1, []Line{{expr.RFInt(0), 2}})
+	got, info, err := Loop1(1, []Line{{expr.RFInt(0), 2}})
 	if err != nil || !got.IsZero() || len(info.Scaleless) == 0 {
 		t.Errorf("scaleless: %v %v %v", got, info, err)
 	}
@@ -88,7 +88,7 @@ func TestOneLoopExact(t *testing.T) {
 func TestB0ZeroMomentum(t *testing.T) {
 	for _, m := range [][2]float64{{1, 2}, {0, 3}, {5, 0.5}} {
 		m0, m1 := expr.RFRat(new(big.Rat).SetFloat64(m[0])), rf("b")
-		e, _, err := OneLoop(0, []Line{{m0.Mul(m0), 1}, {m1.Mul(m1), 1}})
+		e, _, err := Loop1(0, []Line{{m0.Mul(m0), 1}, {m1.Mul(m1), 1}})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -122,7 +122,7 @@ func TestC0D0ZeroMomentum(t *testing.T) {
 			vals[n] = complex(ms[i], 0)
 		}
 		for _, n := range []int{3, 4} {
-			e, _, err := OneLoop(0, lines[:n])
+			e, _, err := Loop1(0, lines[:n])
 			if err != nil {
 				t.Fatal(err)
 			}

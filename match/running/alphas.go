@@ -40,9 +40,9 @@ func guardA(a, mu float64) error {
 	return nil
 }
 
-// AlphaSOneLoop is the closed-form one-loop solution with nf fixed:
+// AlphaS1Loop is the closed-form one-loop solution with nf fixed:
 // αs(μ) = αs(μ0) / (1 + β0 αs(μ0)/(4π) ln(μ²/μ0²)).
-func AlphaSOneLoop(nf int, as0, mu0, mu float64) (float64, error) {
+func AlphaS1Loop(nf int, as0, mu0, mu float64) (float64, error) {
 	if err := (Beta{Nf: nf, Loops: 1}).Check(); err != nil {
 		return 0, err
 	}
@@ -127,13 +127,13 @@ func (b Beta) MassRun(m0, as0, mu0, mu float64) (float64, error) {
 	return math.Exp(y[1]), nil
 }
 
-// MassRunOneLoop is the closed-form one-loop mass running with nf fixed:
+// MassRun1Loop is the closed-form one-loop mass running with nf fixed:
 // m(μ) = m(μ0) [αs(μ)/αs(μ0)]^{γm0/β0}, with the one-loop αs(μ).
-func MassRunOneLoop(nf int, m0, as0, mu0, mu float64) (float64, error) {
+func MassRun1Loop(nf int, m0, as0, mu0, mu float64) (float64, error) {
 	if !(m0 > 0) || math.IsInf(m0, 0) {
 		return 0, fmt.Errorf("running: mass %g GeV: want a finite positive value", m0)
 	}
-	as, err := AlphaSOneLoop(nf, as0, mu0, mu)
+	as, err := AlphaS1Loop(nf, as0, mu0, mu)
 	if err != nil {
 		return 0, err
 	}

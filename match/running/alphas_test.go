@@ -50,7 +50,7 @@ func TestCoefficientDecimals(t *testing.T) {
 }
 
 // One-loop numerical integration against the closed form (issue 8: 1e-12).
-func TestAlphaSOneLoopNumericVsClosedForm(t *testing.T) {
+func TestAlphaS1LoopNumericVsClosedForm(t *testing.T) {
 	tests := []struct {
 		nf           int
 		as0, mu0, mu float64
@@ -68,7 +68,7 @@ func TestAlphaSOneLoopNumericVsClosedForm(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		cf, err := AlphaSOneLoop(tc.nf, tc.as0, tc.mu0, tc.mu)
+		cf, err := AlphaS1Loop(tc.nf, tc.as0, tc.mu0, tc.mu)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -183,7 +183,7 @@ func TestAlphaSFourLoopVsLambda(t *testing.T) {
 	}
 }
 
-func TestMassRunOneLoopAndRoundTrip(t *testing.T) {
+func TestMassRun1LoopAndRoundTrip(t *testing.T) {
 	tests := []struct {
 		nf               int
 		m0, as0, mu0, mu float64
@@ -197,7 +197,7 @@ func TestMassRunOneLoopAndRoundTrip(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		cf, err := MassRunOneLoop(tc.nf, tc.m0, tc.as0, tc.mu0, tc.mu)
+		cf, err := MassRun1Loop(tc.nf, tc.m0, tc.as0, tc.mu0, tc.mu)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -249,7 +249,7 @@ func TestRunningErrors(t *testing.T) {
 		{"loops 5", func() error { _, err := Beta{Nf: 5, Loops: 5}.AlphaS(0.118, 91, 10); return err }, false},
 		{"nf 7", func() error { _, err := Beta{Nf: 7, Loops: 2}.AlphaS(0.118, 91, 10); return err }, false},
 		{"Landau numeric", func() error { _, err := b.AlphaS(0.118, 91.1876, 0.2); return err }, true},
-		{"Landau one loop", func() error { _, err := AlphaSOneLoop(5, 0.118, 91.1876, 0.05); return err }, true},
+		{"Landau one loop", func() error { _, err := AlphaS1Loop(5, 0.118, 91.1876, 0.05); return err }, true},
 		{"Landau numeric 1 loop", func() error { _, err := Beta{Nf: 5, Loops: 1}.AlphaS(0.118, 91.1876, 0.05); return err }, true},
 		{"below Lambda", func() error { _, err := AlphaSLambda(5, 4, 0.2, 0.1); return err }, true},
 		{"mass zero", func() error { _, err := b.MassRun(0, 0.118, 91, 10); return err }, false},
