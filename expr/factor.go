@@ -165,24 +165,7 @@ func productText(k *big.Int, fs []FactorPow) string {
 func itoa(n int) string { return big.NewInt(int64(n)).String() }
 
 // Pretty prints e with every coefficient in factored form, one term after the other.
-func (e Expr) Pretty() string {
-	if len(e.terms) == 0 {
-		return "0"
-	}
-	var sb strings.Builder
-	for i, t := range e.terms {
-		s := t.prettyText()
-		switch {
-		case i == 0:
-			sb.WriteString(s)
-		case strings.HasPrefix(s, "-"):
-			sb.WriteString(" - " + s[1:])
-		default:
-			sb.WriteString(" + " + s)
-		}
-	}
-	return sb.String()
-}
+func (e Expr) Pretty() string { return e.joinTerms(Term.prettyText) }
 
 // prettyText writes the term as one fraction: the factored coefficient with the atoms of
 // positive power in the numerator and those of negative power in the denominator.

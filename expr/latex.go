@@ -127,26 +127,7 @@ func scaledLaTeX(k *big.Int, p Poly) string {
 }
 
 // LaTeX prints e.
-func (e Expr) LaTeX() string {
-	if len(e.terms) == 0 {
-		return "0"
-	}
-	var sb strings.Builder
-	for i, t := range e.terms {
-		s := t.LaTeX()
-		switch {
-		case i == 0:
-			sb.WriteString(s)
-		case strings.HasPrefix(s, "-"):
-			sb.WriteString(" - ")
-			sb.WriteString(s[1:])
-		default:
-			sb.WriteString(" + ")
-			sb.WriteString(s)
-		}
-	}
-	return sb.String()
-}
+func (e Expr) LaTeX() string { return e.joinTerms(Term.LaTeX) }
 
 // LaTeX prints one term; loop integrals as \int_{k} of the integrand.
 func (t Term) LaTeX() string {

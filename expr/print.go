@@ -6,13 +6,17 @@ import (
 
 // String prints e in canonical text form, which the notation's parser reads back to the same
 // expression.
-func (e Expr) String() string {
+func (e Expr) String() string { return e.joinTerms(Term.String) }
+
+// joinTerms writes the terms of e with text, joined by " + " and " - " (a term text's leading
+// minus becomes the operator); "0" for no terms.
+func (e Expr) joinTerms(text func(Term) string) string {
 	if len(e.terms) == 0 {
 		return "0"
 	}
 	var sb strings.Builder
 	for i, t := range e.terms {
-		s := t.String()
+		s := text(t)
 		switch {
 		case i == 0:
 			sb.WriteString(s)

@@ -132,8 +132,9 @@ func ParseFreeExpr(src string) (expr.Expr, error) {
 	return p.lowerScalar(ast, false)
 }
 
-// walkRefs calls f for every name reference in e, including call arguments and loop bodies.
-func walkRefs(e *Expr, f func(*NameRef)) {
+// walkPrimaries calls f for every primary of e, descending into parentheses, loop bodies and
+// call arguments.
+func walkPrimaries(e *Expr, f func(*Primary)) {
 	if e == nil {
 		return
 	}
@@ -148,25 +149,34 @@ func walkRefs(e *Expr, f func(*NameRef)) {
 		}
 		for _, pw := range pows {
 			for _, pm := range []*Primary{pw.Base.Left, pw.Base.Right} {
+				if pm == nil {
+					continue
+				}
+				f(pm)
 				switch {
-				case pm == nil:
 				case pm.Paren != nil:
-					walkRefs(pm.Paren, f)
+					walkPrimaries(pm.Paren, f)
 				case pm.Loop != nil:
-					walkRefs(pm.Loop.Body, f)
-				case pm.Ref != nil:
-					f(pm.Ref)
-					if pm.Ref.Call != nil {
-						for _, g := range pm.Ref.Call.Groups {
-							for _, a := range g.Args {
-								walkRefs(a, f)
-							}
+					walkPrimaries(pm.Loop.Body, f)
+				case pm.Ref != nil && pm.Ref.Call != nil:
+					for _, g := range pm.Ref.Call.Groups {
+						for _, a := range g.Args {
+							walkPrimaries(a, f)
 						}
 					}
 				}
 			}
 		}
 	}
+}
+
+// walkRefs calls f for every name reference in e, including call arguments and loop bodies.
+func walkRefs(e *Expr, f func(*NameRef)) {
+	walkPrimaries(e, func(pm *Primary) {
+		if pm.Ref != nil {
+			f(pm.Ref)
+		}
+	})
 }
 
 func mergeMax(a, b map[string]int) map[string]int {

@@ -482,47 +482,18 @@ func stmtExprs(st *Stmt) []*Expr {
 // collectLoops records every loop momentum name with the position of its loop, so that a use
 // outside the braces gets a precise message.
 func collectLoops(f *File, sites map[string]lexer.Position) {
-	var walk func(e *Expr)
-	walk = func(e *Expr) {
-		if e == nil {
-			return
-		}
-		prods := []*Product{e.First}
-		for _, r := range e.Rest {
-			prods = append(prods, r.Prod)
-		}
-		for _, pr := range prods {
-			pows := []*Power{pr.First}
-			for _, m := range pr.Rest {
-				pows = append(pows, m.Factor)
-			}
-			for _, pw := range pows {
-				for _, pm := range []*Primary{pw.Base.Left, pw.Base.Right} {
-					switch {
-					case pm == nil:
-					case pm.Paren != nil:
-						walk(pm.Paren)
-					case pm.Loop != nil:
-						for _, m := range pm.Loop.Moms {
-							if _, ok := sites[m.Value]; !ok {
-								sites[m.Value] = pm.Loop.Pos
-							}
-						}
-						walk(pm.Loop.Body)
-					case pm.Ref != nil && pm.Ref.Call != nil:
-						for _, g := range pm.Ref.Call.Groups {
-							for _, a := range g.Args {
-								walk(a)
-							}
-						}
-					}
-				}
-			}
-		}
-	}
 	for _, st := range f.Stmts {
 		for _, e := range stmtExprs(st) {
-			walk(e)
+			walkPrimaries(e, func(pm *Primary) {
+				if pm.Loop == nil {
+					return
+				}
+				for _, m := range pm.Loop.Moms {
+					if _, ok := sites[m.Value]; !ok {
+						sites[m.Value] = pm.Loop.Pos
+					}
+				}
+			})
 		}
 	}
 }
