@@ -88,14 +88,7 @@ func goPoly(p Poly) (string, error) {
 	for i, t := range p.terms {
 		neg := t.Coef.Sign() < 0
 		abs := new(big.Rat).Abs(t.Coef)
-		switch {
-		case i == 0 && neg:
-			sb.WriteString("-")
-		case i > 0 && neg:
-			sb.WriteString(" - ")
-		case i > 0:
-			sb.WriteString(" + ")
-		}
+		writeSign(&sb, i == 0, neg)
 		var f []string
 		if abs.Cmp(ratOne) != 0 || len(t.Mono) == 0 {
 			f = append(f, goRat(abs))

@@ -75,14 +75,7 @@ func (p Poly) LaTeX() string {
 	for i, t := range p.terms {
 		neg := t.Coef.Sign() < 0
 		abs := new(big.Rat).Abs(t.Coef)
-		switch {
-		case i == 0 && neg:
-			sb.WriteString("-")
-		case i > 0 && neg:
-			sb.WriteString(" - ")
-		case i > 0:
-			sb.WriteString(" + ")
-		}
+		writeSign(&sb, i == 0, neg)
 		if len(t.Mono) == 0 {
 			sb.WriteString(latexRat(abs))
 			continue

@@ -102,14 +102,7 @@ func (a Mom) String() string {
 	for i, t := range a {
 		neg := t.Coef.Sign() < 0
 		abs := new(big.Rat).Abs(t.Coef)
-		switch {
-		case i == 0 && neg:
-			sb.WriteString("-")
-		case i > 0 && neg:
-			sb.WriteString(" - ")
-		case i > 0:
-			sb.WriteString(" + ")
-		}
+		writeSign(&sb, i == 0, neg)
 		writeMonoTerm(&sb, abs, Mono{{t.Name, 1}})
 	}
 	return sb.String()

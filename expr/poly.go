@@ -549,14 +549,7 @@ func (p Poly) String() string {
 		c := t.Coef
 		neg := c.Sign() < 0
 		abs := new(big.Rat).Abs(c)
-		switch {
-		case i == 0 && neg:
-			sb.WriteString("-")
-		case i > 0 && neg:
-			sb.WriteString(" - ")
-		case i > 0:
-			sb.WriteString(" + ")
-		}
+		writeSign(&sb, i == 0, neg)
 		writeMonoTerm(&sb, abs, t.Mono)
 	}
 	return sb.String()

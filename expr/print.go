@@ -118,3 +118,16 @@ func coefPrefix(c RatFunc) (sign, text string) {
 	}
 	return "", s + "*"
 }
+
+// writeSign writes the sign that joins a term of a sum: "-" before a negative first term,
+// " - " or " + " between terms.
+func writeSign(sb *strings.Builder, first, neg bool) {
+	switch {
+	case first && neg:
+		sb.WriteString("-")
+	case neg:
+		sb.WriteString(" - ")
+	case !first:
+		sb.WriteString(" + ")
+	}
+}
