@@ -16,9 +16,10 @@ import (
 //	I(a, b) = ∫ 1/((l²)^a ((l + p)² − m²)^b)
 //	        = (−1)^{a+b} e^{γ_E ε} μ^{2ε} (m²)^{d/2−a−b} Γ(a+b−d/2) Γ(d−2a−b) / (Γ(b) Γ(d−a−b))
 //
-// (the closed form of the on-shell integral, e.g. A.G. Grozin, Lectures on QED and QCD,
-// hep-ph/0508242, section on on-shell integrals; Wick rotation of our normalisation gives the
-// prefactor), which is a rational function of d times Tad(m²) = I(0, 1).
+// (the one-loop on-shell integral in closed form, as used by D.J. Broadhurst, N. Gray,
+// K. Schilcher, Z. Phys. C52 (1991) 111; derived here by Feynman parameters, with the prefactor
+// from the Wick rotation of our normalisation, and checked against B0 and A0 of package loops in
+// onshell_test.go), which is a rational function of d times Tad(m²) = I(0, 1).
 
 // onShellRatio returns I(a, b)/Tad(m²) = (−1)^{a+b+1} (m²)^{1−a−b} [Γ(a+b−2+ε)/Γ(−1+ε)]
 // Γ(d−2a−b)/(Γ(b) Γ(d−a−b)) as a rational function of d and m².

@@ -9,7 +9,7 @@ import (
 )
 
 // This file turns an expression of real variables into a float64 program that keeps the
-// digits a naive transcription loses for no reason: denominators are evaluated as products of
+// digits a naive one-to-one translation loses for no reason: denominators are evaluated as products of
 // their square-free factors (so (x − 1)^4 is (x − 1)·(x − 1)·… and not x^4 − 4x^3 + …, whose
 // evaluation near x = 1 cancels), numerators by Horner's rule, and every logarithm, factor and
 // power once.

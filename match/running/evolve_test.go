@@ -218,7 +218,7 @@ func nloDifference(t *testing.T, e Evolution, as0, etaInv float64, c0 []float64)
 // NLO closed form against the direct numerical solution of the coupled RGE (issue 8): at fixed
 // η = αs(μ0)/αs(μ) the difference is O(αs²), so halving αs divides it by about 4.
 func TestNLOAgainstNumeric(t *testing.T) {
-	cc0, cc1, _ := CurrentCurrent(3, 5)
+	curG0, curG1, _ := CurrentCurrent(3, 5)
 	d0, d1, _ := DeltaF2(3, 5)
 	g0, _ := DeltaF1DipoleLO(5)
 	cases := []struct {
@@ -226,7 +226,7 @@ func TestNLOAgainstNumeric(t *testing.T) {
 		e    Evolution
 		c0   []float64
 	}{
-		{"current-current NDR", Evolution{G0: cc0, G1: cc1, Nf: 5}, []float64{0.2, 1}},
+		{"current-current NDR", Evolution{G0: curG0, G1: curG1, Nf: 5}, []float64{0.2, 1}},
 		{"ΔF=2 NDR", Evolution{G0: d0, G1: d1, Nf: 5}, []float64{1}},
 		{"8×8 with synthetic γ1", Evolution{G0: g0, G1: syntheticG1(8), Nf: 5}, []float64{0.1, 1, -0.01, 0.02, 0.003, -0.03, -0.19, -0.09}},
 		{"8×8 expanded form", Evolution{G0: g0, G1: syntheticG1(8), Nf: 5, Form: ExpandedForm}, []float64{0.1, 1, -0.01, 0.02, 0.003, -0.03, -0.19, -0.09}},

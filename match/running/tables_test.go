@@ -93,7 +93,7 @@ func TestShippedTables(t *testing.T) {
 }
 
 // TestCurrentCurrentTable compares the shipped current-current table, written as a matrix in
-// (Q1, Q2), with the diagonal form it was transcribed from: in Q± = (Q2 ± Q1)/2,
+// (Q1, Q2), with the diagonal form it was copied from: in Q± = (Q2 ± Q1)/2,
 // γ±^{(0)} = ±6(N∓1)/N, γ±^{(1)} = (N∓1)/(2N)(−21 ± 57/N ∓ 19N/3 ± 4nf/3) (G. Buchalla,
 // A.J. Buras, M.E. Lautenbacher, Rev. Mod. Phys. 68 (1996) 1125, section VI; from memory), so
 // γ11 = γ22 = (γ+ + γ−)/2 and γ12 = γ21 = (γ+ − γ−)/2; and γ+ with the shipped ΔF = 2 table

@@ -11,7 +11,7 @@ import (
 )
 
 // The Inami–Lim functions as written in A.J. Buras, hep-ph/9806471 (PHYSICS.md): as exact
-// expressions for the expr evaluator and the arbitrary-precision reference, and transcribed
+// expressions for the expr evaluator and the arbitrary-precision reference, and written
 // naively into float64 Go, as one would type them from the paper.
 var textbook = []struct {
 	name    string
