@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"errors"
 	"flag"
 	"fmt"
@@ -316,7 +315,5 @@ func writeCheckJSON(w io.Writer, p *notation.Program) {
 		}
 		doc.Matches = append(doc.Matches, jm)
 	}
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	_ = enc.Encode(doc)
+	writeJSON(w, doc)
 }

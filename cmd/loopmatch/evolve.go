@@ -214,7 +214,7 @@ func runEvolve(args []string, out, errOut io.Writer) int {
 		return fail("%v", err)
 	}
 	if o.format.value == "json" {
-		writeJSON(out, ev)
+		writeJSON(out, ev.toJSON())
 	} else {
 		writeEvolutionText(out, ev, "")
 	}
@@ -607,16 +607,6 @@ func (ev *evolution) toJSON() jsonEvolution {
 			[2]float64{real(ev.C[i]), imag(ev.C[i])}})
 	}
 	return j
-}
-
-func writeJSON(w io.Writer, v any) {
-	if ev, ok := v.(*evolution); ok {
-		v = ev.toJSON()
-	}
-	enc := json.NewEncoder(w)
-	enc.SetEscapeHTML(false)
-	enc.SetIndent("", "  ")
-	_ = enc.Encode(v)
 }
 
 // finishEvolveTo is the end of `match --evolve-to MU`: it runs the numerical coefficients of

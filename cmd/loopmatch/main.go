@@ -9,6 +9,7 @@
 package main
 
 import (
+	"encoding/json"
 	"errors"
 	"flag"
 	"fmt"
@@ -180,3 +181,11 @@ func (f *format) Set(s string) error {
 }
 
 func newFormat(allowed ...string) *format { return &format{value: allowed[0], allowed: allowed} }
+
+// writeJSON writes v as indented JSON, the one JSON layout of every command.
+func writeJSON(w io.Writer, v any) {
+	enc := json.NewEncoder(w)
+	enc.SetEscapeHTML(false)
+	enc.SetIndent("", "  ")
+	_ = enc.Encode(v)
+}

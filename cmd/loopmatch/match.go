@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"errors"
 	"flag"
 	"fmt"
@@ -403,7 +402,5 @@ func writeMatchJSON(w io.Writer, p *notation.Program, rs []matchOut) {
 		}
 		doc.Blocks = append(doc.Blocks, b)
 	}
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	_ = enc.Encode(doc)
+	writeJSON(w, doc)
 }

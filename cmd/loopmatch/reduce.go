@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"flag"
 	"fmt"
 	"io"
@@ -141,9 +140,7 @@ func runReduce(args []string, out, errOut io.Writer) int {
 			}
 			doc.Amplitudes = append(doc.Amplitudes, j)
 		}
-		enc := json.NewEncoder(out)
-		enc.SetIndent("", "  ")
-		_ = enc.Encode(doc)
+		writeJSON(out, doc)
 	case "latex":
 		fmt.Fprintf(out, "%% loopmatch reduce %s: %s\n", p.File, what)
 		for _, r := range res {

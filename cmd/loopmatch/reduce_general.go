@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"fmt"
 	"io"
 	"strings"
@@ -69,9 +68,7 @@ func reduceGeneral(p *notation.Program, format string, out, errOut io.Writer) in
 			}
 			doc.Amplitudes = append(doc.Amplitudes, j)
 		}
-		enc := json.NewEncoder(out)
-		enc.SetIndent("", "  ")
-		_ = enc.Encode(doc)
+		writeJSON(out, doc)
 	case "latex":
 		fmt.Fprintf(out, "%% loopmatch reduce %s: %s\n", p.File, what)
 		for _, r := range res {

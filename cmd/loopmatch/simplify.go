@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"flag"
 	"fmt"
 	"io"
@@ -80,9 +79,7 @@ func runSimplify(args []string, out, errOut io.Writer) int {
 		if g, err := expr.GoExpr(e); err == nil {
 			doc["go"] = g
 		}
-		enc := json.NewEncoder(out)
-		enc.SetIndent("", "  ")
-		_ = enc.Encode(doc)
+		writeJSON(out, doc)
 	default:
 		fmt.Fprintln(out, e.String())
 	}
