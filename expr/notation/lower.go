@@ -132,11 +132,11 @@ func ParseFreeExpr(src string) (expr.Expr, error) {
 	return p.lowerScalar(ast, false)
 }
 
-// walkPrimaries calls f for every primary of e, descending into parentheses, loop bodies and
-// call arguments.
-func walkPrimaries(e *Expr, f func(*Primary)) {
+// walkPrimaries calls f for every primary of e with its nesting depth (parentheses, loop bodies
+// and call arguments each add one), parents before children, and stops at the first error.
+func walkPrimaries(e *Expr, depth int, f func(pm *Primary, depth int) error) error {
 	if e == nil {
-		return
+		return nil
 	}
 	prods := []*Product{e.First}
 	for _, r := range e.Rest {
@@ -152,30 +152,38 @@ func walkPrimaries(e *Expr, f func(*Primary)) {
 				if pm == nil {
 					continue
 				}
-				f(pm)
+				if err := f(pm, depth); err != nil {
+					return err
+				}
+				var inner []*Expr
 				switch {
 				case pm.Paren != nil:
-					walkPrimaries(pm.Paren, f)
+					inner = []*Expr{pm.Paren}
 				case pm.Loop != nil:
-					walkPrimaries(pm.Loop.Body, f)
+					inner = []*Expr{pm.Loop.Body}
 				case pm.Ref != nil && pm.Ref.Call != nil:
 					for _, g := range pm.Ref.Call.Groups {
-						for _, a := range g.Args {
-							walkPrimaries(a, f)
-						}
+						inner = append(inner, g.Args...)
+					}
+				}
+				for _, x := range inner {
+					if err := walkPrimaries(x, depth+1, f); err != nil {
+						return err
 					}
 				}
 			}
 		}
 	}
+	return nil
 }
 
 // walkRefs calls f for every name reference in e, including call arguments and loop bodies.
 func walkRefs(e *Expr, f func(*NameRef)) {
-	walkPrimaries(e, func(pm *Primary) {
+	_ = walkPrimaries(e, 0, func(pm *Primary, _ int) error {
 		if pm.Ref != nil {
 			f(pm.Ref)
 		}
+		return nil
 	})
 }
 

@@ -313,3 +313,16 @@ amplitude X3 = V(p - q, al) * V(p + q, al)
 		t.Errorf("index on a scalar parameter: %v", err)
 	}
 }
+
+// TestNestingLimit checks the documented bound: brackets nest up to 200 deep.
+func TestNestingLimit(t *testing.T) {
+	nest := func(n int) string {
+		return header + "amplitude X = " + strings.Repeat("(", n) + "g" + strings.Repeat(")", n) + "\n"
+	}
+	if _, err := Parse("t.lm", []byte(nest(200))); err != nil {
+		t.Errorf("200 levels: %v", err)
+	}
+	if _, err := Parse("t.lm", []byte(nest(201))); err == nil || !strings.Contains(err.Error(), "nested more than 200 levels") {
+		t.Errorf("201 levels: %v", err)
+	}
+}

@@ -385,54 +385,15 @@ func checkNesting(file string, src []byte) error {
 const maxDepth = 200
 
 func checkDepth(f *File) error {
-	var walk func(e *Expr, d int) error
-	walk = func(e *Expr, d int) error {
-		if e == nil {
-			return nil
-		}
-		if d > maxDepth {
-			return errorf(e.Pos, "expression nested more than %d levels deep", maxDepth)
-		}
-		prods := []*Product{e.First}
-		for _, r := range e.Rest {
-			prods = append(prods, r.Prod)
-		}
-		for _, pr := range prods {
-			pows := []*Power{pr.First}
-			for _, m := range pr.Rest {
-				pows = append(pows, m.Factor)
-			}
-			for _, pw := range pows {
-				for _, pm := range []*Primary{pw.Base.Left, pw.Base.Right} {
-					if pm == nil {
-						continue
-					}
-					switch {
-					case pm.Paren != nil:
-						if err := walk(pm.Paren, d+1); err != nil {
-							return err
-						}
-					case pm.Loop != nil:
-						if err := walk(pm.Loop.Body, d+1); err != nil {
-							return err
-						}
-					case pm.Ref != nil && pm.Ref.Call != nil:
-						for _, g := range pm.Ref.Call.Groups {
-							for _, a := range g.Args {
-								if err := walk(a, d+1); err != nil {
-									return err
-								}
-							}
-						}
-					}
-				}
-			}
-		}
-		return nil
-	}
 	for _, st := range f.Stmts {
 		for _, e := range stmtExprs(st) {
-			if err := walk(e, 0); err != nil {
+			err := walkPrimaries(e, 0, func(pm *Primary, d int) error {
+				if d > maxDepth {
+					return errorf(pm.Pos, "expression nested more than %d levels deep", maxDepth)
+				}
+				return nil
+			})
+			if err != nil {
 				return err
 			}
 		}
@@ -484,15 +445,15 @@ func stmtExprs(st *Stmt) []*Expr {
 func collectLoops(f *File, sites map[string]lexer.Position) {
 	for _, st := range f.Stmts {
 		for _, e := range stmtExprs(st) {
-			walkPrimaries(e, func(pm *Primary) {
-				if pm.Loop == nil {
-					return
-				}
-				for _, m := range pm.Loop.Moms {
-					if _, ok := sites[m.Value]; !ok {
-						sites[m.Value] = pm.Loop.Pos
+			_ = walkPrimaries(e, 0, func(pm *Primary, _ int) error {
+				if pm.Loop != nil {
+					for _, m := range pm.Loop.Moms {
+						if _, ok := sites[m.Value]; !ok {
+							sites[m.Value] = pm.Loop.Pos
+						}
 					}
 				}
+				return nil
 			})
 		}
 	}
